@@ -1,0 +1,174 @@
+"""Regions of parameter space: finite unions of polyhedra given by linear constraints, strict or not.
+
+A region is kept in disjunctive normal form because that is how papers state assumptions
+("gamma > alpha > 1", "alpha <= 1/2 or alpha >= 2") and because every later stage (SMT encoding,
+regime splitting, certificates) works one polyhedron at a time.  Every atom is normalised to
+`form >= 0` or `form > 0` with `form` affine, so membership is one exact evaluation.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from fractions import Fraction
+from typing import Iterable, Mapping
+
+from .errors import InputError, RegionError
+from .expr import Affine, Expr, affine, eval_affine, lift, scale, add, to_text, format_number
+
+RELATIONS = ("<", "<=", "==", ">=", ">")
+
+
+@dataclass(frozen=True)
+class Atom:
+    """The constraint `form > 0` (strict) or `form >= 0` (non-strict)."""
+
+    form: Affine
+    strict: bool
+
+    def holds(self, point: Mapping[str, Fraction]) -> bool:
+        value = eval_affine(self.form, point)
+        return value > 0 if self.strict else value >= 0
+
+    def relaxed(self) -> "Atom":
+        return Atom(self.form, False)
+
+    def tightened(self) -> "Atom":
+        return Atom(self.form, True)
+
+    def negated(self) -> "Atom":
+        """not (f > 0) is -f >= 0; not (f >= 0) is -f > 0."""
+        return Atom(_neg(self.form), not self.strict)
+
+    def text(self) -> str:
+        return atom_text(self.form, ">" if self.strict else ">=")
+
+    def __str__(self) -> str:
+        return self.text()
+
+
+def _neg(a: Affine) -> Affine:
+    return affine([(n, -c) for n, c in a.coeffs], -a.const)
+
+
+def atom_text(form: Affine, rel: str) -> str:
+    """Readable `lhs rel rhs` with positive coefficients on each side: `gamma > 2*alpha`."""
+    left = affine([(n, c) for n, c in form.coeffs if c > 0], max(form.const, 0))
+    right = affine([(n, -c) for n, c in form.coeffs if c < 0], max(-form.const, 0))
+    if not left.coeffs and right.coeffs:  # prefer the parameter on the left: alpha < 1
+        flipped = {">": "<", ">=": "<=", "<": ">", "<=": ">=", "==": "=="}[rel]
+        return f"{to_text(right)} {flipped} {to_text(left)}"
+    return f"{to_text(left)} {rel} {to_text(right)}"
+
+
+def atoms_of(lhs, rel: str, rhs) -> tuple[Atom, ...]:
+    """Atoms equivalent to `lhs rel rhs`; both sides must differ by an affine expression."""
+    if rel not in RELATIONS:
+        raise InputError(f"unknown relation '{rel}'")
+    diff = add(lift(lhs), scale(-1, lift(rhs)))
+    if not isinstance(diff, Affine):
+        raise RegionError(f"region constraint '{to_text(lift(lhs))} {rel} {to_text(lift(rhs))}' is not "
+                          "linear; state min/max conditions as separate linear constraints")
+    if rel == ">":
+        return (Atom(diff, True),)
+    if rel == ">=":
+        return (Atom(diff, False),)
+    if rel == "<":
+        return (Atom(_neg(diff), True),)
+    if rel == "<=":
+        return (Atom(_neg(diff), False),)
+    return (Atom(diff, False), Atom(_neg(diff), False))
+
+
+@dataclass(frozen=True)
+class Polyhedron:
+    """Conjunction of atoms; the empty conjunction is the whole space."""
+
+    atoms: tuple[Atom, ...] = ()
+
+    def contains(self, point: Mapping[str, Fraction]) -> bool:
+        return all(a.holds(point) for a in self.atoms)
+
+    def params(self) -> frozenset[str]:
+        return frozenset(n for a in self.atoms for n, _ in a.form.coeffs)
+
+    def meet(self, other: "Polyhedron") -> "Polyhedron":
+        return Polyhedron(_dedupe(self.atoms + other.atoms))
+
+    def interior(self) -> "Polyhedron":
+        """Every constraint made strict (equalities make this empty, as they should)."""
+        return Polyhedron(tuple(a.tightened() for a in self.atoms))
+
+    def closure(self) -> "Polyhedron":
+        return Polyhedron(tuple(a.relaxed() for a in self.atoms))
+
+    def text(self) -> str:
+        return ", ".join(a.text() for a in self.atoms) if self.atoms else "everywhere"
+
+
+def _dedupe(atoms: Iterable[Atom]) -> tuple[Atom, ...]:
+    out: dict[Atom, None] = {}
+    for a in atoms:
+        out.setdefault(a)
+    return tuple(out)
+
+
+@dataclass(frozen=True)
+class Region:
+    """Union of polyhedra.  `Region(())` is empty; `Region.everywhere()` is the whole space."""
+
+    pieces: tuple[Polyhedron, ...]
+
+    @staticmethod
+    def everywhere() -> "Region":
+        return Region((Polyhedron(()),))
+
+    @staticmethod
+    def of(*atoms: Atom) -> "Region":
+        return Region((Polyhedron(_dedupe(atoms)),))
+
+    def contains(self, point: Mapping[str, Fraction]) -> bool:
+        return any(p.contains(point) for p in self.pieces)
+
+    def params(self) -> frozenset[str]:
+        out: frozenset[str] = frozenset()
+        for p in self.pieces:
+            out |= p.params()
+        return out
+
+    def meet(self, other: "Region") -> "Region":
+        return Region(tuple(p.meet(q) for p in self.pieces for q in other.pieces))
+
+    def join(self, other: "Region") -> "Region":
+        return Region(self.pieces + other.pieces)
+
+    def interior(self) -> "Region":
+        return Region(tuple(p.interior() for p in self.pieces))
+
+    def closure(self) -> "Region":
+        return Region(tuple(p.closure() for p in self.pieces))
+
+    def substitute(self, values: Mapping[str, Fraction]) -> "Region":
+        """Fix some parameters to numbers; atoms that become constant are kept only when false."""
+        from .expr import substitute as subst
+        pieces = []
+        for p in self.pieces:
+            atoms, feasible = [], True
+            for a in p.atoms:
+                form = subst(a.form, values)
+                if not form.coeffs:
+                    feasible = feasible and (form.const > 0 if a.strict else form.const >= 0)
+                else:
+                    atoms.append(Atom(form, a.strict))
+            if feasible:
+                pieces.append(Polyhedron(_dedupe(atoms)))
+        return Region(tuple(pieces))
+
+    def text(self) -> str:
+        if not self.pieces:
+            return "nowhere"
+        if len(self.pieces) == 1:
+            return self.pieces[0].text()
+        return " or ".join(f"({p.text()})" for p in self.pieces)
+
+    def __str__(self) -> str:
+        return self.text()
