@@ -1,0 +1,224 @@
+"""Claims: explicit objects for the statements a GDoF paper makes, each reducible to one SMT question.
+
+A claim is never built by overloading `==`; it is a `Claim` with a kind.  Every kind has a *violation*:
+a point (or a pair of points, for monotonicity) where the statement fails.  `violation_query` states
+"such a point exists" for the solver; `violated_at` re-checks a candidate exactly, so a solver model is
+never trusted without our own evaluation.
+
+Kinds and their violations (R is the claim's region):
+- relation `lhs REL rhs`:         x in R and not (lhs(x) REL rhs(x))
+- within c:  |lhs - rhs| <= c:     x in R and |lhs(x) - rhs(x)| > c
+- monotone in p (non-decreasing): x, x' in R, x' = x except p' > p, f(x') < f(x)  (non-increasing: >)
+- reduces-to under p = v, ...:     x in R|p=v and lhs|p=v (x) != rhs(x)
+- symmetric in (p, q):            x in R and f(x) != f(x with p and q swapped)
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field, replace
+from fractions import Fraction
+from typing import Mapping
+
+from .errors import InputError
+from .expr import Expr, abs_, add, evaluate, lift, param, params, rename, scale, substitute, to_text
+from .region import Atom, Polyhedron, Region
+from .smt import Query
+
+RELATIONS = ("==", "<=", ">=", "<", ">")
+NEGATED = {"==": "!=", "<=": ">", ">=": "<", "<": ">=", ">": "<="}
+KINDS = ("relation", "within", "monotone", "reduces-to", "symmetric")
+
+
+@dataclass(frozen=True)
+class Side:
+    """One side of a claim.  `parts` are the named bounds it is the min/max of, for reporting."""
+
+    expr: Expr
+    label: str = ""
+    parts: tuple[tuple[str, Expr], ...] = ()
+
+    def active_parts(self, point: Mapping[str, Fraction]) -> tuple[str, ...]:
+        """Names of the parts attaining the side's value at `point` (the active bounds)."""
+        if not self.parts:
+            return ()
+        value = evaluate(self.expr, point)
+        return tuple(name for name, e in self.parts if evaluate(e, point) == value)
+
+    def text(self) -> str:
+        return self.label or to_text(self.expr)
+
+
+def as_side(x) -> Side:
+    return x if isinstance(x, Side) else Side(lift(x))
+
+
+@dataclass(frozen=True)
+class Claim:
+    """A statement over a region.  Build with the functions below, not directly."""
+
+    kind: str
+    lhs: Side
+    region: Region
+    rhs: Side | None = None
+    rel: str = "=="
+    gap: Fraction = Fraction(0)
+    param: str = ""
+    increasing: bool = True
+    values: tuple[tuple[str, Fraction], ...] = ()
+    swap: tuple[str, str] = ("", "")
+    name: str = ""
+    params: tuple[str, ...] = field(default=())
+
+    def named(self, name: str) -> "Claim":
+        return replace(self, name=name)
+
+    def text(self) -> str:
+        """The statement in words, for reports."""
+        where = f" where {self.region.text()}"
+        if self.kind == "relation":
+            return f"{self.lhs.text()} {self.rel} {self.rhs.text()}{where}"
+        if self.kind == "within":
+            return f"|{self.lhs.text()} - {self.rhs.text()}| <= {_num(self.gap)}{where}"
+        if self.kind == "monotone":
+            trend = "non-decreasing" if self.increasing else "non-increasing"
+            return f"{self.lhs.text()} is {trend} in {self.param}{where}"
+        if self.kind == "reduces-to":
+            fixed = ", ".join(f"{n} = {_num(v)}" for n, v in self.values)
+            return f"{self.lhs.text()} with {fixed} equals {self.rhs.text()}{where}"
+        return f"{self.lhs.text()} is symmetric in {self.swap[0]} and {self.swap[1]}{where}"
+
+
+def _num(q: Fraction) -> str:
+    return str(q.numerator) if q.denominator == 1 else f"{q.numerator}/{q.denominator}"
+
+
+def _all_params(region: Region, *exprs: Expr, extra=()) -> tuple[str, ...]:
+    names = set(region.params()) | set(extra)
+    for e in exprs:
+        names |= params(e)
+    return tuple(sorted(names))
+
+
+def relation(lhs, rel: str, rhs, region: Region, name: str = "") -> Claim:
+    """lhs REL rhs everywhere in region."""
+    if rel == "=":
+        rel = "=="
+    if rel not in RELATIONS:
+        raise InputError(f"unknown relation '{rel}'; use one of {' '.join(RELATIONS)}")
+    lhs, rhs = as_side(lhs), as_side(rhs)
+    return Claim("relation", lhs, region, rhs, rel, name=name,
+                 params=_all_params(region, lhs.expr, rhs.expr))
+
+
+def within(lhs, rhs, gap, region: Region, name: str = "") -> Claim:
+    """|lhs - rhs| <= gap everywhere in region (a constant-gap statement)."""
+    gap = lift(gap)
+    if params(gap):
+        raise InputError(f"the gap must be a constant, not '{to_text(gap)}'")
+    lhs, rhs = as_side(lhs), as_side(rhs)
+    if gap.const < 0:
+        raise InputError(f"the gap must be non-negative, not {_num(gap.const)}")
+    return Claim("within", lhs, region, rhs, gap=gap.const, name=name,
+                 params=_all_params(region, lhs.expr, rhs.expr))
+
+
+def monotone(f, in_param: str, region: Region, increasing: bool = True, name: str = "") -> Claim:
+    """f non-decreasing (or non-increasing) in one parameter, comparing points of the region."""
+    f = as_side(f)
+    return Claim("monotone", f, region, param=in_param, increasing=increasing, name=name,
+                 params=_all_params(region, f.expr, extra=(in_param,)))
+
+
+def reduces_to(lhs, values: Mapping[str, object], rhs, region: Region, name: str = "") -> Claim:
+    """lhs with some parameters fixed equals rhs over what remains of the region."""
+    fixed = tuple(sorted((n, lift(v).const if not params(lift(v)) else _bad_value(n, v))
+                         for n, v in values.items()))
+    if not fixed:
+        raise InputError("reduces-to needs at least one parameter to fix")
+    lhs, rhs = as_side(lhs), as_side(rhs)
+    return Claim("reduces-to", lhs, region, rhs, values=fixed, name=name,
+                 params=_all_params(region, lhs.expr, rhs.expr))
+
+
+def _bad_value(name, value):
+    raise InputError(f"reduces-to: the value of '{name}' must be a number, not '{value}'")
+
+
+def symmetric(f, p: str, q: str, region: Region, name: str = "") -> Claim:
+    """f unchanged when parameters p and q are swapped, at every point of the region."""
+    if p == q:
+        raise InputError(f"symmetric: swap two different parameters, not '{p}' with itself")
+    f = as_side(f)
+    return Claim("symmetric", f, region, swap=(p, q), name=name,
+                 params=_all_params(region, f.expr, extra=(p, q)))
+
+
+# ---------------------------------------------------------------------------------------------
+# the two sides as functions of a witness point, and the violation
+# ---------------------------------------------------------------------------------------------
+
+def primed(name: str) -> str:
+    """The second point's copy of a parameter in a monotonicity witness."""
+    return name + "'"
+
+
+def compared_exprs(claim: Claim) -> tuple[Expr, Expr]:
+    """The two expressions whose comparison is the claim, over the witness variables."""
+    if claim.kind in ("relation", "within"):
+        return claim.lhs.expr, claim.rhs.expr
+    if claim.kind == "monotone":
+        return claim.lhs.expr, rename(claim.lhs.expr, {claim.param: primed(claim.param)})
+    if claim.kind == "reduces-to":
+        return substitute(claim.lhs.expr, dict(claim.values)), claim.rhs.expr
+    p, q = claim.swap
+    return claim.lhs.expr, rename(claim.lhs.expr, {p: q, q: p})
+
+
+def witness_region(claim: Claim) -> Region:
+    """Where witnesses live: the region, its restriction, or (monotone) pairs of region points."""
+    if claim.kind == "reduces-to":
+        return claim.region.substitute(dict(claim.values))
+    if claim.kind != "monotone":
+        return claim.region
+    p = claim.param
+    moved = Region(tuple(Polyhedron(tuple(Atom(rename(a.form, {p: primed(p)}), a.strict)
+                                          for a in poly.atoms)) for poly in claim.region.pieces))
+    return claim.region.meet(moved)
+
+
+def violation_conditions(claim: Claim) -> tuple[tuple[Expr, str, Expr], ...]:
+    left, right = compared_exprs(claim)
+    if claim.kind == "relation":
+        return ((left, NEGATED[claim.rel], right),)
+    if claim.kind == "within":
+        return ((abs_(add(left, scale(-1, right))), ">", lift(claim.gap)),)
+    if claim.kind == "monotone":
+        p = claim.param
+        drop = "<" if claim.increasing else ">"
+        return ((param(primed(p)), ">", param(p)), (right, drop, left))
+    return ((left, "!=", right),)
+
+
+def witness_names(claim: Claim) -> tuple[str, ...]:
+    names = [n for n in claim.params if n not in dict(claim.values)]
+    if claim.kind == "monotone":
+        names.append(primed(claim.param))
+    return tuple(sorted(set(names)))
+
+
+def violation_query(claim: Claim, region: Region | None = None, grid: int | None = None) -> Query:
+    """'A violation exists in `region` (default: the claim's witness region)' as a solver query."""
+    return Query(region if region is not None else witness_region(claim),
+                 violation_conditions(claim), grid, witness_names(claim))
+
+
+def _holds(a: Fraction, rel: str, b: Fraction) -> bool:
+    return {"<": a < b, "<=": a <= b, "==": a == b, "!=": a != b, ">=": a >= b, ">": a > b}[rel]
+
+
+def violated_at(claim: Claim, point: Mapping[str, Fraction]) -> bool:
+    """Exact re-check: is `point` in the witness region and does the claim fail there?"""
+    if not witness_region(claim).contains(point):
+        return False
+    return all(_holds(evaluate(l, point), r, evaluate(h, point))
+               for l, r, h in violation_conditions(claim))
