@@ -1,0 +1,222 @@
+"""A Gaussian network described by its nodes, its links and their SNR exponents, and its messages.
+
+Why a small home-grown description: every generator in bounds/ (cut-set bounds, deterministic models,
+case fragments) needs the same three facts -- who may send, who may listen, and how strong each link
+is as a power of SNR -- and nothing else.  A link exponent is an `Expr` (a parameter such as alpha, a
+number, or any piecewise-linear form of parameters); a missing link means no link at all.
+
+Roles: a transmitter only sends, a receiver only listens, a relay does both.  Validation happens in the
+constructor so that a mistake in a case file surfaces once, with the node or link named.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from fractions import Fraction
+from typing import Iterable, Mapping
+
+from verifier.errors import InputError
+from verifier.expr import Expr, lift, param, params as expr_params
+
+ROLES = ("transmitter", "receiver", "relay")
+
+
+def to_expr(value, what: str = "exponent") -> Expr:
+    """An Expr from an Expr, an exact number, or text (via verifier.parse.parse_expr when present).
+
+    Without the parser only numbers and bare parameter names are accepted as text.
+    """
+    if isinstance(value, Expr):
+        return value
+    if isinstance(value, (int, Fraction)) and not isinstance(value, bool):
+        return lift(value)
+    if isinstance(value, float):
+        return lift(value)
+    if isinstance(value, str):
+        return _text_to_expr(value, what)
+    raise InputError(f"{what} {value!r} is neither a number, an expression nor text")
+
+
+def _text_to_expr(text: str, what: str) -> Expr:
+    try:
+        from verifier.parse import parse_expr  # written by another helper; optional for now
+    except ImportError:
+        parse_expr = None
+    if parse_expr is not None:
+        return parse_expr(text)
+    stripped = text.strip()
+    try:
+        return lift(Fraction(stripped))
+    except (ValueError, ZeroDivisionError):
+        pass
+    if stripped.isidentifier():
+        return param(stripped)
+    raise InputError(f"{what} '{text}' needs the expression parser (verifier.parse), not yet available")
+
+
+@dataclass(frozen=True)
+class Link:
+    """A directed link: transmitter `tx` is heard at receiver `rx` with strength SNR^exponent."""
+
+    tx: str
+    rx: str
+    exponent: Expr
+
+
+@dataclass(frozen=True)
+class Message:
+    """An independent message `name` from node `source` to node `destination`."""
+
+    name: str
+    source: str
+    destination: str
+
+
+class Network:
+    """Nodes with roles, directed links with exponents, and messages; validated on construction."""
+
+    def __init__(self, nodes: Mapping[str, str], links: Iterable[Link], messages: Iterable[Message] = ()):
+        self.nodes: dict[str, str] = dict(nodes)
+        self.links: tuple[Link, ...] = tuple(links)
+        self.messages: tuple[Message, ...] = tuple(messages)
+        self._check_nodes()
+        self._gain: dict[tuple[str, str], Expr] = {}
+        for link in self.links:
+            self._check_link(link)
+            self._gain[(link.tx, link.rx)] = link.exponent
+        self._check_messages()
+
+    # --- validation -------------------------------------------------------------------------
+    def _check_nodes(self) -> None:
+        if not self.nodes:
+            raise InputError("a network needs at least one node")
+        for name, role in self.nodes.items():
+            if not isinstance(name, str) or not name:
+                raise InputError(f"node name {name!r} must be a non-empty string")
+            if role not in ROLES:
+                raise InputError(f"node '{name}' has role {role!r}; expected one of {', '.join(ROLES)}")
+
+    def _check_link(self, link: Link) -> None:
+        label = f"link {link.tx} -> {link.rx}"
+        for end in (link.tx, link.rx):
+            if end not in self.nodes:
+                raise InputError(f"{label}: unknown node '{end}'")
+        if link.tx == link.rx:
+            raise InputError(f"{label}: a node cannot link to itself")
+        if self.nodes[link.tx] == "receiver":
+            raise InputError(f"{label}: '{link.tx}' is a receiver and cannot send")
+        if self.nodes[link.rx] == "transmitter":
+            raise InputError(f"{label}: '{link.rx}' is a transmitter and cannot listen")
+        if not isinstance(link.exponent, Expr):
+            raise InputError(f"{label}: exponent {link.exponent!r} is not an expression")
+        if (link.tx, link.rx) in self._gain:
+            raise InputError(f"{label}: given twice")
+
+    def _check_messages(self) -> None:
+        seen: set[str] = set()
+        for m in self.messages:
+            label = f"message '{m.name}'"
+            if m.name in seen:
+                raise InputError(f"{label}: name used twice")
+            seen.add(m.name)
+            for end in (m.source, m.destination):
+                if end not in self.nodes:
+                    raise InputError(f"{label}: unknown node '{end}'")
+            if m.source == m.destination:
+                raise InputError(f"{label}: source and destination are the same node '{m.source}'")
+            if not self.can_send(m.source):
+                raise InputError(f"{label}: source '{m.source}' is a receiver and cannot send")
+            if not self.can_listen(m.destination):
+                raise InputError(f"{label}: destination '{m.destination}' is a transmitter and cannot listen")
+
+    # --- queries ----------------------------------------------------------------------------
+    def can_send(self, node: str) -> bool:
+        return self.nodes[node] in ("transmitter", "relay")
+
+    def can_listen(self, node: str) -> bool:
+        return self.nodes[node] in ("receiver", "relay")
+
+    def exponent(self, tx: str, rx: str) -> Expr | None:
+        """The link exponent from `tx` to `rx`, or None when there is no link."""
+        return self._gain.get((tx, rx))
+
+    def node_names(self) -> list[str]:
+        return list(self.nodes)
+
+    def message(self, name: str) -> Message:
+        for m in self.messages:
+            if m.name == name:
+                return m
+        raise InputError(f"no message named '{name}'")
+
+    def params(self) -> frozenset[str]:
+        out: frozenset[str] = frozenset()
+        for link in self.links:
+            out |= expr_params(link.exponent)
+        return out
+
+    def __repr__(self) -> str:
+        return f"Network(nodes={self.nodes!r}, links={len(self.links)}, messages={len(self.messages)})"
+
+
+# ---------------------------------------------------------------------------------------------
+# loading from a case-file table
+# ---------------------------------------------------------------------------------------------
+
+def from_mapping(table: Mapping) -> Network:
+    """Network from {nodes = {S = "transmitter", ...}, links = [["S", "D", "alpha"], ...], messages = [...]}.
+
+    A message is ["W", "S", "D"] or {name = "W", source = "S", destination = "D"}.  Exponents are numbers
+    or text in the tool's expression syntax.
+    """
+    if not isinstance(table, Mapping):
+        raise InputError("a network table must be a mapping with keys nodes, links, messages")
+    unknown = set(table) - {"nodes", "links", "messages"}
+    if unknown:
+        raise InputError(f"network table: unknown key(s) {', '.join(sorted(unknown))}")
+    nodes = table.get("nodes")
+    if not isinstance(nodes, Mapping):
+        raise InputError("network table: 'nodes' must be a table of name = role")
+    links = [_link_from(i, item) for i, item in enumerate(table.get("links", []))]
+    messages = [_message_from(i, item) for i, item in enumerate(table.get("messages", []))]
+    return Network(nodes, links, messages)
+
+
+def _link_from(index: int, item) -> Link:
+    if not isinstance(item, (list, tuple)) or len(item) != 3:
+        raise InputError(f"links[{index}]: expected [tx, rx, exponent], got {item!r}")
+    tx, rx, exp = item
+    return Link(str(tx), str(rx), to_expr(exp, f"links[{index}] exponent"))
+
+
+def _message_from(index: int, item) -> Message:
+    if isinstance(item, Mapping):
+        missing = {"name", "source", "destination"} - set(item)
+        if missing:
+            raise InputError(f"messages[{index}]: missing {', '.join(sorted(missing))}")
+        return Message(str(item["name"]), str(item["source"]), str(item["destination"]))
+    if isinstance(item, (list, tuple)) and len(item) == 3:
+        return Message(*(str(x) for x in item))
+    raise InputError(f"messages[{index}]: expected [name, source, destination], got {item!r}")
+
+
+# ---------------------------------------------------------------------------------------------
+# common networks, so tests and case files need not spell them out
+# ---------------------------------------------------------------------------------------------
+
+def relay_channel(sd="sd", sr="sr", rd="rd") -> Network:
+    """Source S, relay R, destination D; exponents default to parameters sd, sr, rd."""
+    return Network({"S": "transmitter", "R": "relay", "D": "receiver"},
+                   [Link("S", "D", to_expr(sd)), Link("S", "R", to_expr(sr)), Link("R", "D", to_expr(rd))],
+                   [Message("W", "S", "D")])
+
+
+def interference_channel(gains: Mapping[tuple[int, int], object]) -> Network:
+    """K-user interference channel; gains[(i, j)] is the exponent from transmitter Ti to receiver Rj.
+
+    Messages Wi go from Ti to Ri.  Pairs left out have no link.
+    """
+    users = sorted({i for pair in gains for i in pair})
+    nodes = {f"T{i}": "transmitter" for i in users} | {f"R{i}": "receiver" for i in users}
+    links = [Link(f"T{i}", f"R{j}", to_expr(e)) for (i, j), e in sorted(gains.items())]
+    return Network(nodes, links, [Message(f"W{i}", f"T{i}", f"R{i}") for i in users])
