@@ -54,7 +54,10 @@ def atom_text(form: Affine, rel: str) -> str:
     """Readable `lhs rel rhs` with positive coefficients on each side: `gamma > 2*alpha`."""
     left = affine([(n, c) for n, c in form.coeffs if c > 0], max(form.const, 0))
     right = affine([(n, -c) for n, c in form.coeffs if c < 0], max(-form.const, 0))
-    if not left.coeffs and right.coeffs:  # prefer the parameter on the left: alpha < 1
+    def terms(a: Affine) -> int:
+        return len(a.coeffs) + (a.const != 0)
+    # the shorter side on the left reads as papers write it: alpha < 1, alpha <= 1 + gamma/2
+    if (not left.coeffs and right.coeffs) or (right.coeffs and terms(right) < terms(left)):
         flipped = {">": "<", ">=": "<=", "<": ">", "<=": ">=", "==": "=="}[rel]
         return f"{to_text(right)} {flipped} {to_text(left)}"
     return f"{to_text(left)} {rel} {to_text(right)}"

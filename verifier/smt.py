@@ -30,15 +30,19 @@ class Query:
     `grid`: when set, every parameter is forced onto the lattice (1/grid) * Z; the witness search uses
     it to find counterexamples with a small common denominator.
     `names`: parameters that must exist as variables even if no expression mentions them.
+    `outside`: regions the point must avoid (coverage checks of regime-by-regime definitions).
     """
 
     region: Region
     conditions: tuple[tuple[Expr, str, Expr], ...] = ()
     grid: int | None = None
     names: tuple[str, ...] = ()
+    outside: tuple[Region, ...] = ()
 
     def variables(self) -> tuple[str, ...]:
         found = set(self.names) | set(self.region.params())
+        for r in self.outside:
+            found |= r.params()
         for lhs, _, rhs in self.conditions:
             found |= params(lhs) | params(rhs)
         return tuple(sorted(found))
@@ -124,6 +128,7 @@ class _Encoder:
 def _formula(query: Query, enc: _Encoder):
     parts = [enc.region(query.region)]
     parts += [enc.relation(l, r, h) for l, r, h in query.conditions]
+    parts += [enc.mgr.Not(enc.region(r)) for r in query.outside]
     names = query.variables()
     for n in names:
         enc.var(n)

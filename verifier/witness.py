@@ -76,9 +76,9 @@ def best_counterexample(claim: Claim, model: Mapping[str, Fraction], solver: str
     """The counterexample to print: small denominators, strictly inside when possible."""
     point = small_denominator_point(claim, solver, timeout, inside=True)
     if point is not None:
-        return describe(claim, point, True, "smallest denominator, strictly inside the region")
+        return describe(claim, point, True, "smallest common denominator")
     point = small_denominator_point(claim, solver, timeout, inside=False)
     if point is not None:
         return describe(claim, point, witness_region(claim).interior().contains(point),
-                        "smallest denominator (no violation lies strictly inside the region)")
+                        "smallest common denominator; no violation lies strictly inside")
     return describe(claim, model, witness_region(claim).interior().contains(model), "solver model")

@@ -1,0 +1,68 @@
+"""`gdof check CASE.toml`: one verdict per claim, counterexamples in exact rationals."""
+
+from __future__ import annotations
+
+from verifier.errors import InputError
+
+from . import verdict_text as vt
+from .casefile import load_case
+from .decide import decide
+from .exit_codes import exit_code
+
+
+def configure(p) -> None:
+    p.add_argument("case", help="a case file (TOML)")
+    p.add_argument("--json", action="store_true", help="machine-readable output on stdout")
+    p.add_argument("--claim", action="append", default=[], metavar="NAME",
+                   help="check only the named claim (repeatable)")
+
+
+def select(case, names):
+    if not names:
+        return case.claims
+    chosen = [c for c in case.claims if c.claim.name in names]
+    missing = set(names) - {c.claim.name for c in chosen}
+    if missing:
+        raise InputError(f"no claim named {', '.join(sorted(missing))} in {case.path}")
+    return chosen
+
+
+def run(args) -> int:
+    case = load_case(args.case, args.solver, args.timeout)
+    outcomes = [decide(cc, args.solver, args.timeout, args.cross_check) for cc in select(case, args.claim)]
+    if args.json:
+        print(vt.dumps(as_json(case, outcomes, args)))
+    else:
+        print("\n".join(text_lines(case, outcomes, args)))
+    return exit_code(o.status for o in outcomes)
+
+
+def header_lines(case, args) -> list[str]:
+    lines = [f"Case: {case.title}   ({case.path})"]
+    if case.source:
+        lines.append(f"Source: {case.source}")
+    lines += [f"Assumed region: {case.assume.text()}",
+              vt.solver_line(args.solver, args.timeout, args.cross_check), ""]
+    for r in case.regime_checks:
+        how = "one continuous function, used in min/max form" if r.expr is not None else \
+              f"not one continuous function ({r.detail}); claims split by regime"
+        lines.append(f"Regime-wise bound {r.name}: {len(r.pieces)} regimes; {how}.")
+    return lines + ([""] if case.regime_checks else [])
+
+
+def text_lines(case, outcomes, args) -> list[str]:
+    lines = header_lines(case, args)
+    for o in outcomes:
+        lines += vt.outcome_lines(o) + [""]
+    counts = {s: sum(o.status == s for o in outcomes) for s in ("proved", "refuted", "unknown")}
+    lines.append(f"Summary: {counts['proved']} proved, {counts['refuted']} refuted, "
+                 f"{counts['unknown']} unknown.")
+    lines.append(vt.CAUTION)
+    return lines
+
+
+def as_json(case, outcomes, args) -> dict:
+    return {"case": case.title, "file": case.path, "source": case.source,
+            "assumed_region": case.assume.text(), "solver": args.solver,
+            "cross_check": args.cross_check, "timeout": args.timeout, "versions": vt.versions(),
+            "claims": [vt.outcome_json(o) for o in outcomes], "caution": vt.CAUTION}

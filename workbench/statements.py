@@ -1,0 +1,162 @@
+"""The claim sentences of case files, e.g. `inner == outer`, `outer within 1 of inner`.
+
+Our own small grammar, keyword-driven and read at bracket depth 0 so that commas and keywords inside
+min{...} never split a sentence.  Forms (A, B, C are expressions; p, q parameters; v numbers):
+
+    A REL B                         REL one of == = <= >= < > (also the symbols for <= and >=)
+    A within C of B                 |A - B| <= C
+    A nondecreasing in p            (also: nonincreasing, non-decreasing, non-increasing)
+    A with p = v, q = w equals B    A reduces to B when p = v and q = w
+    A symmetric in p, q             A unchanged when p and q are swapped
+
+Expressions are parsed by verifier.parse with the case's parameter and bound names; an error inside a
+part is re-raised with its column counted from the start of the sentence.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass, field
+
+from verifier.errors import InputError, ParseError
+
+RELATION_RE = re.compile(r"==|<=|>=|≤|≥|=|<|>")
+KEYWORDS = {
+    "within": re.compile(r"\bwithin\b"),
+    "symmetric": re.compile(r"\bsymmetric\s+in\b"),
+    "monotone": re.compile(r"\b(non-?decreasing|non-?increasing)\s+in\b"),
+    "reduces-to": re.compile(r"\bwith\b"),
+}
+
+
+@dataclass
+class Part:
+    """A slice of the sentence: its text and where it starts (0-based)."""
+
+    text: str
+    start: int
+
+
+@dataclass
+class Sentence:
+    kind: str
+    lhs: Part
+    rhs: Part | None = None
+    rel: str = "=="
+    gap: Part | None = None
+    param: str = ""
+    increasing: bool = True
+    values: list[tuple[str, Part]] = field(default_factory=list)
+    swap: tuple[str, str] = ("", "")
+
+
+def _depth0_mask(text: str) -> list[bool]:
+    """True at characters outside every bracket (and outside |...|, which opens and closes alike)."""
+    mask, depth, bars = [], 0, 0
+    for ch in text:
+        if ch in "([{":
+            depth += 1
+        elif ch in ")]}":
+            depth -= 1
+        elif ch == "|":
+            bars ^= 1
+        mask.append(depth == 0 and bars == 0 and ch != "|")
+    return mask
+
+
+def _find(pattern: re.Pattern, text: str, start: int = 0):
+    mask = _depth0_mask(text)
+    for m in pattern.finditer(text, start):
+        if mask[m.start()]:
+            return m
+    return None
+
+
+def _part(text: str, start: int, end: int, what: str, full: str) -> Part:
+    raw = text[start:end]
+    stripped = raw.strip()
+    if not stripped:
+        raise ParseError(f"missing {what}", full, min(start, len(full) - 1) if full else 0)
+    return Part(stripped, start + (len(raw) - len(raw.lstrip())))
+
+
+def _name(part: Part, full: str) -> str:
+    if not re.fullmatch(r"[A-Za-z_][A-Za-z0-9_]*", part.text):
+        raise ParseError(f"expected a parameter name, found '{part.text}'", full, part.start)
+    return part.text
+
+
+def _split_list(part: Part) -> list[Part]:
+    pieces, pos = [], part.start
+    for chunk in re.split(r",|\band\b", part.text):
+        offset = part.text.find(chunk, pos - part.start)
+        pieces.append(Part(chunk.strip(), part.start + offset + (len(chunk) - len(chunk.lstrip()))))
+        pos = part.start + offset + len(chunk)
+    return pieces
+
+
+def parse_sentence(text: str) -> Sentence:
+    """Split a claim sentence into its kind and parts (expressions are parsed later)."""
+    if not text.strip():
+        raise ParseError("empty claim", text, 0)
+    for kind, pattern in KEYWORDS.items():
+        m = _find(pattern, text)
+        if m is not None:
+            return _KIND_PARSERS[kind](text, m)
+    m = _find(RELATION_RE, text)
+    if m is None:
+        raise ParseError("a claim needs a relation (==, <=, >=, <, >) or a keyword "
+                         "(within, nondecreasing in, with ... equals, symmetric in)", text, 0)
+    rel = {"=": "==", "≤": "<=", "≥": ">="}.get(m.group(), m.group())
+    second = _find(RELATION_RE, text, m.end())
+    if second is not None:
+        raise ParseError("one relation per claim; state chained conditions in 'where'", text, second.start())
+    return Sentence("relation", _part(text, 0, m.start(), "left side", text),
+                    _part(text, m.end(), len(text), "right side", text), rel)
+
+
+def _within(text: str, m) -> Sentence:
+    of = _find(re.compile(r"\bof\b"), text, m.end())
+    if of is None:
+        raise ParseError("'within' needs 'of': A within C of B", text, m.start())
+    return Sentence("within", _part(text, 0, m.start(), "left side", text),
+                    _part(text, of.end(), len(text), "right side", text),
+                    gap=_part(text, m.end(), of.start(), "gap", text))
+
+
+def _monotone(text: str, m) -> Sentence:
+    param = _name(_part(text, m.end(), len(text), "parameter", text), text)
+    return Sentence("monotone", _part(text, 0, m.start(), "function", text), param=param,
+                    increasing="increasing" not in m.group(1).replace("decreasing", ""))
+
+
+def _symmetric(text: str, m) -> Sentence:
+    names = [_name(p, text) for p in _split_list(_part(text, m.end(), len(text), "parameters", text))]
+    if len(names) != 2:
+        raise ParseError("'symmetric in' takes exactly two parameters", text, m.end())
+    return Sentence("symmetric", _part(text, 0, m.start(), "function", text), swap=(names[0], names[1]))
+
+
+def _reduces(text: str, m) -> Sentence:
+    eq = _find(re.compile(r"\bequals\b"), text, m.end())
+    if eq is None:
+        raise ParseError("'with' needs 'equals': A with p = 0 equals B", text, m.start())
+    values = []
+    for item in _split_list(_part(text, m.end(), eq.start(), "values", text)):
+        if "=" not in item.text:
+            raise ParseError(f"expected 'name = value', found '{item.text}'", text, item.start)
+        name, _, value = item.text.partition("=")
+        values.append((_name(Part(name.strip(), item.start), text),
+                       Part(value.strip(), item.start + item.text.index("=") + 1 +
+                            (len(value) - len(value.lstrip())))))
+    return Sentence("reduces-to", _part(text, 0, m.start(), "function", text),
+                    _part(text, eq.end(), len(text), "right side", text), values=values)
+
+
+_KIND_PARSERS = {"within": _within, "symmetric": _symmetric, "monotone": _monotone, "reduces-to": _reduces}
+
+
+def shifted(err: InputError, part: Part, full: str) -> InputError:
+    """The same error, its position moved from the part into the whole sentence."""
+    pos = part.start + (err.position or 0)
+    return type(err)(err.message, full, pos)

@@ -1,0 +1,127 @@
+"""Plain verdict output of `gdof check`: terminal text and JSON, both exact.
+
+Numbers are printed as exact fractions everywhere (JSON carries them as strings "4/7"), because a
+reader must be able to re-check a counterexample by hand.
+"""
+
+from __future__ import annotations
+
+import json
+from fractions import Fraction
+
+from verifier.expr import format_number
+from verifier.prove import Verdict
+from verifier.smt import versions
+from verifier.witness import Counterexample
+
+CAUTION = ("A GDoF statement is asymptotic in SNR: a verdict here proves nothing about rates at any "
+           "finite SNR, and it covers only the claims exactly as encoded in the case file.")
+
+TAGS = {"proved": "PROVED ", "refuted": "REFUTED", "unknown": "UNKNOWN"}
+
+
+def fmt(q: Fraction) -> str:
+    return format_number(Fraction(q))
+
+
+def point_text(point) -> str:
+    return ", ".join(f"{k} = {fmt(v)}" for k, v in point.items())
+
+
+def solver_line(solver: str, timeout: float, cross: bool) -> str:
+    v = versions()
+    used = "z3 and cvc5 (cross-check)" if cross else solver
+    have = ", ".join(f"{k} {val}" for k, val in v.items())
+    return f"Solver: {used}; timeout {timeout:g} s per query ({have})"
+
+
+def side_names(verdict: Verdict) -> tuple[str, str]:
+    c = verdict.claim
+    if c.kind == "monotone":
+        return (f"value at {c.param}", f"value at {c.param}'")
+    if c.kind == "symmetric":
+        return ("value", f"value with {c.swap[0]} and {c.swap[1]} swapped")
+    if c.kind == "reduces-to":
+        return (f"{c.lhs.text()} (fixed)", c.rhs.text())
+    return (c.lhs.text(), c.rhs.text())
+
+
+def counterexample_lines(verdict: Verdict, indent: str = "    ") -> list[str]:
+    cex: Counterexample = verdict.counterexample
+    where = "strictly inside the region" if cex.strictly_inside else "on the region's boundary"
+    left, right = side_names(verdict)
+    lines = [f"{indent}counterexample: {point_text(cex.point)}  ({where}; {cex.origin})"]
+    lines.append(f"{indent}  {left} = {fmt(cex.lhs_value)}" + _active(cex.lhs_active))
+    lines.append(f"{indent}  {right} = {fmt(cex.rhs_value)}" + _active(cex.rhs_active))
+    lines.append(f"{indent}  difference = {fmt(cex.difference)}")
+    return lines
+
+
+def _active(names) -> str:
+    return f"   [active: {', '.join(names)}]" if names else ""
+
+
+def verdict_lines(verdict: Verdict, expect: str | None = None) -> list[str]:
+    c = verdict.claim
+    head = f"[{TAGS[verdict.status]}] {c.name}"
+    if expect and expect != verdict.status:
+        head += f"   << declared {expect} >>"
+    lines = [head, f"    {c.text()}   ({verdict.seconds:.2f} s, {verdict.solver})"]
+    if verdict.detail:
+        lines.append(f"    note: {verdict.detail}")
+    if verdict.counterexample is not None:
+        lines += counterexample_lines(verdict)
+    return lines
+
+
+def outcome_lines(outcome) -> list[str]:
+    """A case claim: its overall verdict, uncovered points, and the failing (or every) sub-claim."""
+    cc = outcome.case_claim
+    head = f"[{TAGS[outcome.status]}] {cc.claim.name}"
+    if cc.expect and cc.expect != outcome.status:
+        head += f"   << declared {cc.expect} >>"
+    lines = [head, f"    {cc.claim.text()}   ({outcome.seconds:.2f} s)"]
+    for name, point in outcome.uncovered:
+        lines.append(f"    not covered: no regime of '{name}' contains {point_text(point)} "
+                     "(a forgotten regime?)")
+    for label, v in outcome.verdicts:
+        if label:
+            lines.append(f"    [{TAGS[v.status]}] {label}")
+        if v.detail:
+            lines.append(f"    note: {v.detail}")
+        if v.counterexample is not None:
+            lines += counterexample_lines(v, "      " if label else "    ")
+    return lines
+
+
+def outcome_json(outcome) -> dict:
+    cc = outcome.case_claim
+    return {"name": cc.claim.name, "statement": cc.statement, "kind": cc.claim.kind,
+            "claim": cc.claim.text(), "region": cc.claim.region.text(), "status": outcome.status,
+            "expected": cc.expect, "seconds": round(outcome.seconds, 4),
+            "uncovered": [{"bound": n, "point": {k: fmt(v) for k, v in p.items()}}
+                          for n, p in outcome.uncovered],
+            "parts": [dict(verdict_json(v), regime=label) for label, v in outcome.verdicts]}
+
+
+def counterexample_json(cex: Counterexample) -> dict:
+    return {"point": {k: fmt(v) for k, v in cex.point.items()},
+            "lhs": fmt(cex.lhs_value), "rhs": fmt(cex.rhs_value), "difference": fmt(cex.difference),
+            "lhs_active": list(cex.lhs_active), "rhs_active": list(cex.rhs_active),
+            "strictly_inside": cex.strictly_inside, "origin": cex.origin}
+
+
+def verdict_json(verdict: Verdict, statement: str = "", expect: str | None = None) -> dict:
+    c = verdict.claim
+    out = {"name": c.name, "statement": statement, "kind": c.kind, "claim": c.text(),
+           "region": c.region.text(), "status": verdict.status, "solver": verdict.solver,
+           "seconds": round(verdict.seconds, 4), "detail": verdict.detail,
+           "answers": {a.solver: a.status for a in verdict.answers},
+           "counterexample": counterexample_json(verdict.counterexample) if verdict.counterexample else None}
+    if expect:
+        out["expected"] = expect
+    return out
+
+
+def dumps(data) -> str:
+    return json.dumps(data, indent=2, ensure_ascii=False)
