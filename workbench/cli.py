@@ -55,6 +55,8 @@ def main(argv=None) -> int:
     except GdofError as err:
         print(f"gdof: error: {err}", file=sys.stderr)
         return EXIT_INPUT
+    except BrokenPipeError:  # output piped into `head`: not an error of ours
+        return 0
     except KeyboardInterrupt:
         print("gdof: interrupted", file=sys.stderr)
         return 130
