@@ -39,6 +39,7 @@ from .expansion import expand
 from .statements import Part, parse_sentence, shifted
 
 RESERVED = {"inner", "outer"}
+CLAIM_KEYS = {"name", "statement", "where", "expect"}
 VERDICTS = ("proved", "refuted", "unknown")
 TOP_KEYS = {"title", "scenario", "source", "parameters", "assume", "outer", "inner", "formulas",
             "claims", "network", "plot"}
@@ -259,6 +260,9 @@ def _claim(rd: _Reader, index: int, spec, case: Case) -> CaseClaim:
     key = f"claims[{index}]"
     if not isinstance(spec, dict) or "statement" not in spec:
         raise rd.fail(key, "each [[claims]] entry needs statement = \"...\"")
+    extra = sorted(set(spec) - CLAIM_KEYS)
+    if extra:
+        raise rd.fail(f"{key}.{extra[0]}", f"unknown key; a claim has {', '.join(sorted(CLAIM_KEYS))}")
     text = spec["statement"]
     try:
         s = parse_sentence(text)
