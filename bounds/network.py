@@ -16,15 +16,15 @@ from fractions import Fraction
 from typing import Iterable, Mapping
 
 from verifier.errors import InputError
-from verifier.expr import Expr, lift, param, params as expr_params
+from verifier.expr import Expr, lift, params as expr_params
 
 ROLES = ("transmitter", "receiver", "relay")
 
 
-def to_expr(value, what: str = "exponent") -> Expr:
-    """An Expr from an Expr, an exact number, or text (via verifier.parse.parse_expr when present).
+def to_expr(value, what: str = "exponent", names: Iterable[str] | None = None) -> Expr:
+    """An Expr from an Expr, an exact number, or text (read by verifier.parse.parse_expr).
 
-    Without the parser only numbers and bare parameter names are accepted as text.
+    `names`, when given, are the only parameter names text may use (as in a case file).
     """
     if isinstance(value, Expr):
         return value
@@ -33,25 +33,16 @@ def to_expr(value, what: str = "exponent") -> Expr:
     if isinstance(value, float):
         return lift(value)
     if isinstance(value, str):
-        return _text_to_expr(value, what)
+        return _text_to_expr(value, what, names)
     raise InputError(f"{what} {value!r} is neither a number, an expression nor text")
 
 
-def _text_to_expr(text: str, what: str) -> Expr:
+def _text_to_expr(text: str, what: str, names: Iterable[str] | None) -> Expr:
+    from verifier.parse import parse_expr
     try:
-        from verifier.parse import parse_expr  # written by another helper; optional for now
-    except ImportError:
-        parse_expr = None
-    if parse_expr is not None:
-        return parse_expr(text)
-    stripped = text.strip()
-    try:
-        return lift(Fraction(stripped))
-    except (ValueError, ZeroDivisionError):
-        pass
-    if stripped.isidentifier():
-        return param(stripped)
-    raise InputError(f"{what} '{text}' needs the expression parser (verifier.parse), not yet available")
+        return parse_expr(text, names)
+    except InputError as err:
+        raise type(err)(f"{what}: {err.message}", err.source, err.position) from None
 
 
 @dataclass(frozen=True)
@@ -163,11 +154,11 @@ class Network:
 # loading from a case-file table
 # ---------------------------------------------------------------------------------------------
 
-def from_mapping(table: Mapping) -> Network:
+def from_mapping(table: Mapping, names: Iterable[str] | None = None) -> Network:
     """Network from {nodes = {S = "transmitter", ...}, links = [["S", "D", "alpha"], ...], messages = [...]}.
 
     A message is ["W", "S", "D"] or {name = "W", source = "S", destination = "D"}.  Exponents are numbers
-    or text in the tool's expression syntax.
+    or text in the tool's expression syntax; `names` restricts the parameters text may use.
     """
     if not isinstance(table, Mapping):
         raise InputError("a network table must be a mapping with keys nodes, links, messages")
@@ -177,16 +168,16 @@ def from_mapping(table: Mapping) -> Network:
     nodes = table.get("nodes")
     if not isinstance(nodes, Mapping):
         raise InputError("network table: 'nodes' must be a table of name = role")
-    links = [_link_from(i, item) for i, item in enumerate(table.get("links", []))]
+    links = [_link_from(i, item, names) for i, item in enumerate(table.get("links", []))]
     messages = [_message_from(i, item) for i, item in enumerate(table.get("messages", []))]
     return Network(nodes, links, messages)
 
 
-def _link_from(index: int, item) -> Link:
+def _link_from(index: int, item, names) -> Link:
     if not isinstance(item, (list, tuple)) or len(item) != 3:
         raise InputError(f"links[{index}]: expected [tx, rx, exponent], got {item!r}")
     tx, rx, exp = item
-    return Link(str(tx), str(rx), to_expr(exp, f"links[{index}] exponent"))
+    return Link(str(tx), str(rx), to_expr(exp, f"links[{index}] exponent", names))
 
 
 def _message_from(index: int, item) -> Message:
