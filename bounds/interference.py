@@ -78,6 +78,11 @@ def w_curve(alpha="alpha") -> Expr:
     return min_(1, max_(scale(Fraction(1, 2), a), add(1, scale(Fraction(-1, 2), a))), max_(a, add(1, scale(-1, a))))
 
 
+def symmetric_sum_gdof(alpha="alpha") -> Expr:
+    """Sum-GDoF of the symmetric IC: twice the W curve."""
+    return scale(2, w_curve(alpha))
+
+
 def symmetric_bounds(alpha="alpha") -> dict[str, Expr]:
     """Per-user outer bounds of the symmetric IC as upper bounds on d (REFERENCES.md #1)."""
     a = to_expr(alpha)

@@ -19,8 +19,7 @@ from fractions import Fraction
 from typing import Iterable, Mapping, Sequence
 
 from verifier.errors import InputError
-from verifier.expr import (Affine, Expr, Max, Min, Sum, add, as_fraction, is_constant, constant_value, lift,
-                           min_, scale)
+from verifier.expr import Affine, Expr, Max, Min, Sum, add, as_fraction, lift, min_, scale
 
 _OBJ = "\0objective"
 

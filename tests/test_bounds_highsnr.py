@@ -1,6 +1,5 @@
 """Finite-SNR rate expressions (bounds.highsnr): exact GDoF extraction confirmed by mpmath slopes."""
 
-import random
 from fractions import Fraction
 
 import mpmath

@@ -11,7 +11,8 @@ from scipy.optimize import linprog
 from bounds.cutset import sum_cut_bounds
 from bounds.ic_schemes import ShiftIC, achieve, vertices_2d
 from bounds.interference import (deterministic_ic_region, from_receiver_first, hk_region, ic_network,
-                                 ic_outer_bounds, ic_sum_gdof, symmetric_bounds, symmetric_rate, w_curve)
+                                 ic_outer_bounds, ic_sum_gdof, symmetric_bounds, symmetric_rate,
+                                 symmetric_sum_gdof, w_curve)
 from verifier.expr import evaluate, min_
 
 ALPHA_POINTS = sorted({Fraction(k, d) for d in (1, 2, 3, 4, 5, 6, 7, 12) for k in range(0, 5 * d + 1)})
@@ -27,7 +28,7 @@ def test_asymmetric_bounds_specialise_to_the_w_curve():
         point = {"alpha": alpha}
         expected = evaluate(w_curve(), point)
         assert evaluate(sym, point) == expected
-        assert evaluate(total, point) == 2 * expected
+        assert evaluate(total, point) == 2 * expected == evaluate(symmetric_sum_gdof(), point)
         assert evaluate(listed, point) == expected
 
 
