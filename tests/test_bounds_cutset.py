@@ -56,14 +56,17 @@ def test_shift_matrix_has_rank_n():
 
 @st.composite
 def small_networks(draw):
-    """2 to 4 nodes: N0 sends, the last listens, the middle ones relay; exponents 0..6."""
-    k = draw(st.integers(2, 4))
+    """2 to 5 nodes: N0 sends W to the last node; the middle ones relay, or only send, or only listen
+    (so the generator's placement of pure transmitters and receivers is exercised); exponents 0..6."""
+    k = draw(st.integers(2, 5))
     names = [f"N{i}" for i in range(k)]
-    roles = {n: "relay" for n in names} | {names[0]: "transmitter", names[-1]: "receiver"}
+    roles = {n: draw(st.sampled_from(["relay", "relay", "transmitter", "receiver"])) for n in names[1:-1]}
+    roles = {names[0]: "transmitter", **roles, names[-1]: "receiver"}
     links = []
-    for a in names[:-1]:
-        for b in names[1:]:
-            if a != b and draw(st.booleans()):
+    for a in names:
+        for b in names:
+            allowed = a != b and roles[a] != "receiver" and roles[b] != "transmitter"
+            if allowed and draw(st.booleans()):
                 links.append(Link(a, b, to_expr(draw(st.integers(0, 6)))))
     return Network(roles, links, [Message("W", names[0], names[-1])]), draw(st.integers(0, 10**6))
 
