@@ -225,6 +225,11 @@ def add(*exprs) -> Expr:
             terms.append(e)
     if not terms:
         return aff
+    counts: dict[tuple, list] = {}
+    for t in terms:
+        counts.setdefault(t.key, [t, 0])[1] += 1
+    if any(k > 1 for _, k in counts.values()):  # t + t is 2*t, pushed into the min/max
+        return add(aff, *(scale(k, t) for t, k in counts.values()))
     if len(terms) == 1 and aff == ZERO_AFFINE:
         return terms[0]
     return Sum(aff, tuple(sorted(terms, key=lambda t: t.key)))
