@@ -38,6 +38,7 @@ class CaseRun:
     results: list = field(default_factory=list)
     seconds: float = 0.0
     error: str | None = None
+    case: object = None          # the loaded workbench.casefile.Case, when it loaded
 
     def count(self, status: str) -> int:
         return sum(o.status == status for _, o in self.results)
@@ -71,7 +72,7 @@ def run_case(path, solver: str = "z3", timeout: float = 30.0, cross_check: bool 
     start = time.perf_counter()
     try:
         case = load_case(path, solver, timeout)
-        run.title, run.source = case.title, case.source
+        run.case, run.title, run.source = case, case.title, case.source
         for cc in case.claims:
             run.results.append((cc, _decide(cc, run.path, solver, timeout, cross_check)))
     except GdofError as err:
