@@ -1,0 +1,160 @@
+"""The affine piece of an expression on a cell, with a proof; or the hyperplane that must split the cell.
+
+Why lazy: min(1, max(a, b)) is the constant 1 wherever max(a, b) >= 1, whatever the sign of a - b,
+so splitting the cell along a = b there would only multiply cells.  We therefore never ask "which
+argument of every min/max is active" but "what must hold for the expression to equal one affine form
+here", and prove only that:
+- min(args) equals arg_j on the cell when arg_j has an affine piece g and every other argument is
+  >= g on the cell (max: <= g);
+- "e >= g" for a max needs one argument >= g, for a min all of them; for an affine e it is one LP,
+  whose dual multipliers are the Farkas certificate.
+The argument chosen is the one active at the cell's interior point z (ties: each tied candidate is
+tried).  When a needed LP fails, the difference d = e - g is >= 0 at z and < 0 somewhere in the cell,
+so d takes both signs on the cell's relative interior: splitting by d = 0 leaves two non-empty cells
+of the same dimension, and d never splits a descendant again (termination).
+
+Proofs are plain frozen dataclasses referring to atoms by index; a child cell keeps its parent's
+atoms as a prefix, so proofs found on a parent stay valid on its children (the memo is inherited).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from fractions import Fraction
+from typing import Sequence
+
+from .expr import Affine, Expr, Max, Min, Sum, evaluate
+from .lp import ONE, Farkas, combine, farkas
+from .region import Atom
+
+
+@dataclass(frozen=True)
+class Piece:
+    """Proof that an expression equals an affine form on the cell.
+
+    kind 'affine': the expression is affine.  'sum': `subs` are the pieces of the Sum's terms.
+    'extremum': argument `index` is the min/max on the cell; `subs` = (its piece,), `bounds` = one
+    Bound per other argument (in argument order) showing it is >= (min) or <= (max) that piece."""
+
+    kind: str
+    subs: tuple = ()
+    index: int = -1
+    bounds: tuple = ()
+
+
+@dataclass(frozen=True)
+class Bound:
+    """Proof that an expression is >= g (min context) or <= g (max context) on the cell.
+
+    kind 'farkas': `piece` proves the expression equals an affine form f, and `cert` proves
+    f - g >= 0 (or g - f >= 0).  'one': argument `index` alone suffices (max for >=, min for <=),
+    proved by subs[0].  'all': every argument satisfies it (min for >=, max for <=), subs per argument."""
+
+    kind: str
+    subs: tuple = ()
+    index: int = -1
+    piece: Piece | None = None
+    cert: Farkas | None = None
+
+
+class NeedSplit(Exception):
+    """The cell must be cut by `form = 0` before the requested proof can exist."""
+
+    def __init__(self, form: Affine):
+        super().__init__(str(form))
+        self.form = form
+
+
+class CellProver:
+    """Builds Piece proofs on one cell (atoms, an interior point), sharing a memo with ancestors."""
+
+    def __init__(self, atoms: Sequence[Atom], names: Sequence[str], point: dict, memo: dict | None = None):
+        self.atoms = list(atoms)
+        self.names = tuple(names)
+        self.point = point
+        self.memo = memo if memo is not None else {}
+        self.values: dict = {}
+        self.failed: dict = {}  # LPs that failed on this cell (not inherited: children differ)
+
+    def value(self, e: Expr) -> Fraction:
+        if e.key not in self.values:
+            self.values[e.key] = evaluate(e, self.point)
+        return self.values[e.key]
+
+    # --- pieces -------------------------------------------------------------------------
+    def piece(self, e: Expr) -> tuple[Affine, Piece]:
+        key = ("p", e.key)
+        if key not in self.memo:
+            self.memo[key] = self._piece(e)
+        return self.memo[key]
+
+    def _piece(self, e: Expr):
+        if isinstance(e, Affine):
+            return e, Piece("affine")
+        if isinstance(e, Sum):
+            got = [self.piece(t) for t in e.terms]
+            total = e.affine
+            for f, _ in got:
+                total = combine(total, f)
+            return total, Piece("sum", tuple(p for _, p in got))
+        ge = isinstance(e, Min)
+        vals = [self.value(a) for a in e.args]
+        best = min(vals) if ge else max(vals)
+        first_failure = None
+        for j in [k for k, v in enumerate(vals) if v == best]:
+            try:
+                g, sub = self.piece(e.args[j])
+                bounds = tuple(self.bound(a, g, ge) for i, a in enumerate(e.args) if i != j)
+                return g, Piece("extremum", (sub,), j, bounds)
+            except NeedSplit as exc:
+                first_failure = first_failure or exc
+        raise first_failure
+
+    # --- bounds -------------------------------------------------------------------------
+    def bound(self, e: Expr, g: Affine, ge: bool) -> Bound:
+        key = ("b", e.key, g, ge)
+        if key not in self.memo:
+            self.memo[key] = self._bound(e, g, ge)
+        return self.memo[key]
+
+    def _bound(self, e: Expr, g: Affine, ge: bool) -> Bound:
+        if isinstance(e, (Min, Max)):
+            one = isinstance(e, Max) == ge
+            if not one:
+                return Bound("all", tuple(self.bound(a, g, ge) for a in e.args))
+            gv = g.const + sum((c * self.point[n] for n, c in g.coeffs), Fraction(0))
+            vals = [self.value(a) for a in e.args]
+            order = sorted((k for k, v in enumerate(vals) if (v >= gv if ge else v <= gv)),
+                           key=lambda k: (-vals[k] if ge else vals[k], k))
+            first_failure = None
+            for k in order:
+                try:
+                    return Bound("one", (self.bound(e.args[k], g, ge),), k)
+                except NeedSplit as exc:
+                    first_failure = first_failure or exc
+            raise first_failure
+        f, piece = self.piece(e)
+        diff = combine(f, g, -ONE) if ge else combine(g, f, -ONE)
+        cert = self._nonneg(diff)
+        return Bound("farkas", piece=piece, cert=cert)
+
+    def _nonneg(self, diff: Affine) -> Farkas:
+        if not diff.coeffs:
+            if diff.const >= 0:
+                return Farkas(diff.const, ())
+            raise AssertionError("a constant difference is negative at an interior point")
+        if diff in self.failed:
+            raise self.failed[diff]
+        cert = farkas(diff, self.atoms, self.names, strict=False)
+        if cert is None:
+            self.failed[diff] = NeedSplit(diff)
+            raise self.failed[diff]
+        return cert
+
+
+def affine_pieces(exprs: Sequence[Expr], atoms: Sequence[Atom], names: Sequence[str], point: dict,
+                  memo: dict | None = None) -> tuple[tuple[Affine, ...], tuple[Piece, ...]]:
+    """Affine forms and proofs of all `exprs` on the cell, or NeedSplit."""
+    prover = CellProver(atoms, names, point, memo)
+    got = [prover.piece(e) for e in exprs]
+    return tuple(f for f, _ in got), tuple(p for _, p in got)

@@ -1,0 +1,240 @@
+"""prove_by_regimes: decide a claim regime by regime, with certificates, thresholds and failure sets.
+
+Pipeline: spec (regime_spec) -> cells (regimes.decompose) -> regimes (cells grouped by their affine
+formulas and active named parts) -> per-regime exact verdicts and certificates (regime_work, in
+parallel when workers > 1) -> thresholds, failure region, best counterexamples, bound analysis,
+maximum gaps -> a cross-check against the one-shot SMT proof (verifier.prove).
+
+Overall status: 'proved' only if every regime is proved and certified (or decided by SMT), 'refuted' if
+any regime fails, else 'unknown'.  If the regime method and the one-shot SMT verdict are both decisive
+and differ, the status is 'unknown' and `detail` says METHODS DISAGREE.
+
+Monotone claims: on each cell f is affine, and (f continuous, being built from min/max of affine
+functions) f is non-decreasing along p on a convex region iff the p-coefficient of f is >= 0 on
+every cell: a segment in direction p crosses finitely many cell closures, on each of which f is
+affine with non-negative slope.  A negative slope on a cell refutes the claim on any region (two
+nearby points inside that cell).  When the region is not convex (its pieces' union is not one
+polyhedron) non-negative slopes do not suffice, and the verdict is the SMT one; when the region's
+affine hull does not contain the p direction there are no pairs to compare and the claim holds
+vacuously (also left to SMT, which sees no witness).
+"""
+
+from __future__ import annotations
+
+import time
+from concurrent.futures import ProcessPoolExecutor
+from dataclasses import dataclass, field, replace
+from typing import Callable, Mapping
+
+from .analysis import Gap, PartReport, max_gap, part_reports
+from .claims import Claim, violated_at, witness_region
+from .errors import RegionError
+from .failure import FailureRegion, failure_region
+from .lp_shape import reduce_modulo
+from .prove import Verdict, prove
+from .regime_geometry import region_is_convex
+from .regime_spec import spec_of, targets
+from .regime_work import PROVED, REFUTED, UNKNOWN, Job, Regime, analyse_regime
+from .regimes import decompose, disjoint_pieces
+from .thresholds import Threshold, thresholds
+from .witness import Counterexample, describe
+
+
+@dataclass(frozen=True)
+class RegimeProof:
+    """Everything the region-wise prover found about one claim (renderers read only this)."""
+
+    claim: Claim
+    status: str                          # proved / refuted / unknown
+    method: str                          # 'regimes' or 'smt' (monotone on a non-convex region, ...)
+    names: tuple[str, ...]               # parameters of the regime space
+    labels: tuple[str, ...]              # what each compared expression is called
+    regimes: tuple[Regime, ...]
+    thresholds: tuple[Threshold, ...]
+    failure: FailureRegion | None
+    counterexamples: tuple[Counterexample, ...]   # best first
+    parts: tuple[PartReport, ...]
+    gaps: tuple[Gap, ...]                # sup(lhs - rhs), sup(rhs - lhs); empty for monotone
+    smt: Verdict | None                  # the one-shot verdict used as a cross-check
+    agree: bool | None                   # regime verdict and one-shot verdict agree (None: not run)
+    detail: str = ""
+    timing: Mapping[str, float] = field(default_factory=dict)
+    cells: int = 0
+    workers: int = 1
+
+    @property
+    def certified(self) -> bool:
+        return bool(self.regimes) and all(r.certified for r in self.regimes)
+
+
+def _key(spec, cell, index):
+    forms = tuple(reduce_modulo(cell.forms[index[e.key]], cell.hull, spec.names) for e in spec.exprs)
+    active = []
+    for side in range(len(spec.exprs)):
+        side_form = forms[side]
+        names = tuple(n for s, n, e in spec.parts if s == side and
+                      reduce_modulo(cell.forms[index[e.key]], cell.hull, spec.names) == side_form)
+        active.append(names)
+    return forms, tuple(active)
+
+
+def _jobs(spec, cells, tgts, options):
+    index = {e.key: i for i, e in enumerate(tgts)}
+    groups: dict = {}
+    for cell in cells:
+        groups.setdefault(_key(spec, cell, index), []).append(cell)
+    jobs = []
+    for k, ((_, active), members) in enumerate(groups.items()):
+        forms = tuple(tuple(c.forms[index[e.key]] for e in spec.exprs) for c in members)
+        pieces = tuple(tuple(c.proofs[index[e.key]] for e in spec.exprs) for c in members)
+        jobs.append(Job(spec, k, tuple(members), forms, pieces, active, options))
+    return jobs
+
+
+def _mapper(pool, progress, stage):
+    def run(fn, items):
+        items = list(items)
+        results = pool.map(fn, items) if pool is not None else map(fn, items)
+        out = []
+        for k, got in enumerate(results, 1):
+            out.append(got)
+            if progress:
+                progress(stage, k, len(items))
+        return out
+    return run
+
+
+def prove_by_regimes(claim: Claim, solver: str = "z3", timeout: float = 30.0, cross_check: bool = False,
+                     workers: int = 1, progress: Callable[[str, int, int], None] | None = None,
+                     box: Mapping[str, tuple] | None = None, smt: str = "claim",
+                     improve_witness: bool = True) -> RegimeProof:
+    """Decide `claim` regime by regime (see the module docstring).
+
+    smt: 'claim' (one one-shot cross-check, default), 'regimes' (also each regime separately), or
+    'none'.  box: {name: (lo, hi)} clips unbounded failure sets when locating the worst violation.
+    progress(stage, done, total) is called as cells and regimes finish."""
+    clock = {"start": time.perf_counter()}
+    spec = spec_of(claim)
+    pieces = disjoint_pieces(spec.region, spec.names)
+    if not pieces:
+        raise RegionError(f"the region '{spec.region.text()}' of claim '{claim.name or claim.text()}' is empty")
+    tgts = targets(spec)
+    options = {"box": box, "improve_witness": improve_witness, "solver": solver,
+               "timeout": min(timeout, 10.0), "smt_regimes": smt == "regimes", "claim": claim}
+    pool = ProcessPoolExecutor(max_workers=workers) if workers > 1 else None
+    try:
+        cells = decompose(tgts, spec.region, spec.names, _mapper(pool, progress, "cells"),
+                          want=4 * workers if pool else 1)
+        clock["decompose"] = time.perf_counter()
+        jobs = _jobs(spec, cells, tgts, options)
+        regimes = tuple(_mapper(pool, progress, "regimes")(analyse_regime, jobs))
+    finally:
+        if pool is not None:
+            pool.shutdown()
+    clock["regimes"] = time.perf_counter()
+    return _assemble(claim, spec, pieces, cells, regimes, clock, solver, timeout, cross_check, smt, workers)
+
+
+def _assemble(claim, spec, pieces, cells, regimes, clock, solver, timeout, cross_check, smt, workers):
+    ths = thresholds(regimes, spec.names)
+    fails = [p for r in regimes for p in r.failures]
+    failure = failure_region(fails, pieces, spec.names) if spec.kind == "compare" else None
+    cexs = _counterexamples(claim, spec, regimes)
+    parts = part_reports(tuple(dict.fromkeys((s, n) for s, n, _ in spec.parts)), regimes)
+    gaps = (max_gap(regimes, spec.names, 1), max_gap(regimes, spec.names, -1)) \
+        if spec.kind == "compare" else ()
+    clock["analysis"] = time.perf_counter()
+    status, method, detail = _regime_status(spec, regimes, pieces)
+    verdict, agree = None, None
+    if smt != "none" or method == "smt":
+        verdict = prove(claim, solver, timeout, cross_check, improve_witness=False)
+        status, agree, detail = _combine(status, method, verdict, detail)
+        if status == REFUTED and not cexs and verdict.counterexample is not None:
+            cexs = (verdict.counterexample,)
+    clock["smt"] = time.perf_counter()
+    timing = _timing(clock)
+    return RegimeProof(claim, status, method, spec.names, spec.labels, regimes, ths, failure, cexs,
+                       parts, gaps, verdict, agree, detail, timing, len(cells), workers)
+
+
+def _timing(clock):
+    order = ["start", "decompose", "regimes", "analysis", "smt"]
+    out = {b: clock[b] - clock[a] for a, b in zip(order, order[1:])}
+    out["total"] = clock["smt"] - clock["start"]
+    return out
+
+
+def _regime_status(spec, regimes, pieces):
+    statuses = [r.status for r in regimes]
+    loud = "; ".join(r.detail for r in regimes if "DISAGREE" in r.detail)
+    if spec.kind == "monotone":
+        hulls = {r.cells[0].hull for r in regimes}
+        if any(h.coeff(spec.param) != 0 for hull in hulls for h in hull):
+            return UNKNOWN, "smt", f"the region's affine hull does not contain the {spec.param} direction"
+    if REFUTED in statuses:
+        return REFUTED, "regimes", loud
+    if spec.kind == "monotone" and not region_is_convex(pieces, spec.names):
+        return UNKNOWN, "smt", "monotone on a non-convex region: slopes do not decide it"
+    if all(s == PROVED for s in statuses):
+        return PROVED, "regimes", loud
+    return UNKNOWN, "regimes", loud or "some regimes are undecided"
+
+
+def _combine(status, method, verdict, detail):
+    if method == "smt" or status == UNKNOWN:
+        return verdict.status, None, (detail + "; " if detail else "") + f"verdict from {verdict.solver}"
+    if verdict.status == UNKNOWN:
+        return status, None, detail
+    if verdict.status != status:
+        return UNKNOWN, False, (f"METHODS DISAGREE: regimes say {status}, {verdict.solver} says "
+                                f"{verdict.status}; treat as unknown and report it")
+    return status, True, detail
+
+
+def _counterexamples(claim, spec, regimes):
+    """Best first: full-dimensional failures, then small denominators; every one re-checked."""
+    out = []
+    for r in regimes:
+        if r.status != REFUTED:
+            continue
+        if spec.kind == "monotone":
+            point = _monotone_pair(spec, r)
+            if point is not None:
+                out.append((0, 1, describe(claim, point, witness_region(claim).interior().contains(point),
+                                           f"slope {r.forms[0].coeff(spec.param)} in regime {r.index}")))
+            continue
+        for piece in r.failures:
+            point = piece.small_point or piece.point
+            origin = "smallest denominator" if piece.small_point else "nice interior point"
+            cex = describe(claim, point, witness_region(claim).interior().contains(point),
+                           f"{origin} of a failure piece in regime {r.index}")
+            out.append((0 if piece.full_dimensional else 1, _den(point), cex))
+            if piece.worst_attained and piece.worst_point is not None:
+                worst = describe(claim, piece.worst_point,
+                                 witness_region(claim).interior().contains(piece.worst_point),
+                                 f"largest violation ({piece.worst_value}) in regime {r.index}")
+                out.append((0 if piece.full_dimensional else 1, _den(piece.worst_point) + 10 ** 6, worst))
+    good = [c for _, _, c in sorted(out, key=lambda t: (t[0], t[1])) if violated_at(claim, c.point)]
+    return tuple(good)
+
+
+def _den(point):
+    from .failure import denominator
+    return denominator(point)
+
+
+def _monotone_pair(spec, regime):
+    """Two points of the failing cell, apart only in p, where f decreases (increases)."""
+    from fractions import Fraction
+    cell = regime.cells[0]
+    z = dict(regime.cells[0].point)
+    p = spec.param
+    step = Fraction(1)
+    for atom in cell.atoms:
+        c = atom.form.coeff(p)
+        if c < 0:
+            room = atom.form.const + sum((k * z[n] for n, k in atom.form.coeffs), Fraction(0))
+            step = min(step, room / (-c) / 2)
+    point = dict(z)
+    point[p + "'"] = z[p] + step
+    return point if step > 0 else None

@@ -1,0 +1,141 @@
+"""Thresholds: the hyperplanes where one regime hands over to another, and 1-D slice breakpoints.
+
+Why: papers state regimes by their boundaries ("for alpha <= 1/2 ...", "when gamma = 2 alpha");
+these are the facets shared by two regimes.  Two convex pieces A, B of different regimes are
+adjacent through h = 0 when h is among the irredundant constraints of both and the closures meet in a
+set of dimension dim(A) - 1 lying in h = 0 (an exact shape computation, not a picture).
+A slice fixes all parameters but one to rationals and lists, per compared expression, the exact
+points where its slope changes (the kinks a plot would show).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from fractions import Fraction
+from typing import Mapping, Sequence
+
+from .expr import Affine, Expr, affine, substitute
+from .lp import feasible, substitute_affine
+from .lp_shape import shape
+from .regimes import Cell, decompose, normalise
+from .region import Atom, Region, atom_text
+
+
+@dataclass(frozen=True)
+class Threshold:
+    """The hyperplane `form = 0` (normalised: first coefficient +1), as text like 'alpha = gamma/2',
+    with the pairs of regime indices (i < j) it separates."""
+
+    form: Affine
+    text: str
+    between: tuple[tuple[int, int], ...]
+
+
+def equation_text(form: Affine) -> str:
+    return atom_text(form, "==").replace(" == ", " = ")
+
+
+def _adjacent(a, b, h: Affine, names) -> bool:
+    """Do the closures of a and b meet in a set of dimension dim(a) - 1 inside h = 0?"""
+    meet = [x.relaxed() for x in a.polyhedron.atoms + b.polyhedron.atoms]
+    if a.dim < len(names):
+        meet += [Atom(h, False), Atom(h, False).negated().relaxed()]
+        s = shape(meet, names)
+        return s is not None and s.dim == a.dim - 1
+    # full-dimensional: substitute the first parameter of h away and ask for an interior point
+    first = h.coeffs[0][0]
+    rest = affine([(n, -c) for n, c in h.coeffs[1:]], -h.const)
+    others = [n for n in names if n != first]
+    atoms = []
+    for x in meet:
+        f = substitute_affine(x.form, first, rest)
+        if not f.coeffs:
+            if f.const < 0:
+                return False
+            continue
+        atoms.append(Atom(f, True))
+    if not others or not atoms:
+        return True
+    return feasible(atoms, others) is not None
+
+
+def thresholds(regimes: Sequence, names: Sequence[str]) -> tuple[Threshold, ...]:
+    """Every hyperplane separating two adjacent regimes (regimes: objects with `polytopes`)."""
+    planes: dict[Affine, list] = {}
+    for r, regime in enumerate(regimes):
+        for p in regime.polytopes:
+            for atom in p.polyhedron.atoms:
+                if atom.form.coeffs:
+                    h = normalise(atom.form)
+                    side = atom.form.coeffs[0][1] > 0
+                    planes.setdefault(h, []).append((r, p, side))
+    out = []
+    for h, owners in planes.items():
+        pairs = set()
+        for i, (ra, pa, sa) in enumerate(owners):
+            for rb, pb, sb in owners[i + 1:]:
+                key = (min(ra, rb), max(ra, rb))
+                if ra != rb and key not in pairs and (sa != sb or pa.dim < len(names)) \
+                        and _adjacent(pa, pb, h, names):
+                    pairs.add(key)
+        if pairs:
+            out.append(Threshold(h, equation_text(h), tuple(sorted(pairs))))
+    return tuple(sorted(out, key=lambda t: (t.between, t.text)))
+
+
+# ---------------------------------------------------------------------------------------------
+# one-dimensional slices
+# ---------------------------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class SliceProfile:
+    """Along `param` with the others fixed: consecutive intervals (lo, hi) (None = infinite), the
+    slope of each expression on each, and per expression the breakpoints where its slope changes."""
+
+    param: str
+    fixed: dict
+    intervals: tuple[tuple[Fraction | None, Fraction | None], ...]
+    slopes: tuple[tuple[Fraction, ...], ...]
+    breakpoints: tuple[tuple[Fraction, ...], ...]
+
+    @property
+    def all_breakpoints(self) -> tuple[Fraction, ...]:
+        return tuple(sorted({b for side in self.breakpoints for b in side}))
+
+
+def _interval(cell: Cell, param: str):
+    lo, hi = None, None
+    for atom in cell.atoms:
+        c = atom.form.coeff(param)
+        if c == 0:
+            continue
+        bound = -atom.form.const / c
+        if c > 0:
+            lo = bound if lo is None else max(lo, bound)
+        else:
+            hi = bound if hi is None else min(hi, bound)
+    return lo, hi
+
+
+def slice_profile(exprs: Sequence[Expr], region: Region, param: str,
+                  fixed: Mapping[str, Fraction]) -> SliceProfile:
+    """Exact slopes and breakpoints of `exprs` along `param` through the point `fixed`."""
+    fixed = {k: Fraction(v) for k, v in fixed.items() if k != param}
+    line = [substitute(e, fixed) for e in exprs]
+    cells = decompose(line, region.substitute(fixed), (param,))
+    merged: list[list] = []
+    for cell in cells:
+        lo, hi = _interval(cell, param)
+        slopes = tuple(f.coeff(param) for f in cell.forms)
+        if merged and merged[-1][2] == slopes and merged[-1][1] == lo:
+            merged[-1][1] = hi
+        else:
+            merged.append([lo, hi, slopes])
+    breaks: list[list[Fraction]] = [[] for _ in exprs]
+    for left, right in zip(merged, merged[1:]):
+        if left[1] is not None and left[1] == right[0]:
+            for k in range(len(exprs)):
+                if left[2][k] != right[2][k]:
+                    breaks[k].append(left[1])
+    return SliceProfile(param, fixed, tuple((m[0], m[1]) for m in merged),
+                        tuple(m[2] for m in merged), tuple(tuple(b) for b in breaks))
