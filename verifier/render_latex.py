@@ -1,0 +1,210 @@
+"""LaTeX rendering of a Report: each side as a `cases` environment over the regimes, tables for
+counterexamples, and a standalone wrapper document that compiles with plain pdflatex + amsmath.
+
+Why `cases`: it is how a GDoF paper states a piecewise formula, so the fragment can be pasted into a
+manuscript as is.  Parameter names become Greek letters (alpha -> \\alpha, alpha_1 -> \\alpha_{1});
+numbers stay exact (\\tfrac{2}{3}).  When verifier.latex_out exists its expr_to_latex is used for
+formulas, so the tool prints one LaTeX dialect.
+"""
+
+from __future__ import annotations
+
+import re
+from fractions import Fraction
+
+from .expr import Affine, affine
+from .region import Atom
+from .report import ClaimReport, Report, chains, num
+
+GREEK = {"alpha", "beta", "gamma", "delta", "epsilon", "varepsilon", "zeta", "eta", "theta", "iota",
+         "kappa", "lambda", "mu", "nu", "xi", "pi", "rho", "sigma", "tau", "upsilon", "phi", "varphi",
+         "chi", "psi", "omega", "Gamma", "Delta", "Theta", "Lambda", "Xi", "Pi", "Sigma", "Upsilon",
+         "Phi", "Psi", "Omega"}
+_SPECIALS = {"\\": r"\textbackslash{}", "&": r"\&", "%": r"\%", "$": r"\$", "#": r"\#", "_": r"\_",
+             "{": r"\{", "}": r"\}", "~": r"\textasciitilde{}", "^": r"\textasciicircum{}",
+             "<": r"\textless{}", ">": r"\textgreater{}", "|": r"\textbar{}"}
+
+
+def escape(text: str) -> str:
+    """Plain text made safe for LaTeX text mode."""
+    return "".join(_SPECIALS.get(ch, ch) for ch in text)
+
+
+def name_latex(name: str) -> str:
+    """alpha -> \\alpha, alpha_1 / alpha1 -> \\alpha_{1}, gamma' -> \\gamma', snr -> \\mathrm{snr}."""
+    try:
+        from .latex_out import name_to_latex  # one LaTeX dialect for the whole tool, when present
+        return name_to_latex(name)
+    except ImportError:
+        pass
+    primes = len(name) - len(name.rstrip("'"))
+    core = name.rstrip("'")
+    m = re.fullmatch(r"([A-Za-z]+?)_?(\d+)", core) or re.fullmatch(r"([A-Za-z]+)_(\w+)", core)
+    base, sub = (m.group(1), m.group(2)) if m else (core, "")
+    head = f"\\{base}" if base in GREEK else (base if len(base) == 1 else f"\\mathrm{{{escape(base)}}}")
+    if sub:
+        head += f"_{{{sub}}}" if sub.isdigit() else f"_{{\\mathrm{{{escape(sub)}}}}}"
+    return head + "'" * primes
+
+
+def number_latex(q: Fraction) -> str:
+    q = Fraction(q)
+    if q.denominator == 1:
+        return str(q.numerator)
+    sign = "-" if q < 0 else ""
+    return f"{sign}\\tfrac{{{abs(q.numerator)}}}{{{q.denominator}}}"
+
+
+def _term(c: Fraction, name: str) -> str:
+    mag = abs(c)
+    coef = "" if mag == 1 else number_latex(mag)
+    return coef + name_latex(name)
+
+
+def affine_latex(a: Affine) -> str:
+    """An affine form in the order papers write it: 1 - \\tfrac{1}{2}\\alpha."""
+    try:
+        from .latex_out import expr_to_latex  # one LaTeX dialect for the whole tool, when present
+        return expr_to_latex(a)
+    except ImportError:
+        pass
+    pieces = [("-" if c < 0 else "+", _term(c, n)) for n, c in a.coeffs]
+    if a.const > 0:
+        pieces.insert(0, ("+", number_latex(a.const)))
+    elif a.const < 0 or not pieces:
+        pieces.append(("-" if a.const < 0 else "+", number_latex(abs(a.const))))
+    text = " ".join(f"{s} {t}" for s, t in pieces)
+    return text[2:] if text.startswith("+ ") else "-" + text[2:]
+
+
+def atom_latex(atom: Atom) -> str:
+    """A constraint with positive coefficients on each side, shorter side on the left."""
+    return _sides_latex(atom.form, (">", "<") if atom.strict else (r"\ge", r"\le"))
+
+
+def equation_latex(form: Affine) -> str:
+    """The hyperplane form = 0 written as papers do: \alpha = \tfrac{1}{2}."""
+    return _sides_latex(form, ("=", "="))
+
+
+def _sides_latex(f: Affine, rels) -> str:
+    left = affine([(n, c) for n, c in f.coeffs if c > 0], max(f.const, 0))
+    right = affine([(n, -c) for n, c in f.coeffs if c < 0], max(-f.const, 0))
+    size = lambda a: len(a.coeffs) + (a.const != 0)  # noqa: E731
+    if (not left.coeffs and right.coeffs) or (right.coeffs and size(right) < size(left)):
+        return f"{affine_latex(right)} {rels[1]} {affine_latex(left)}"
+    return f"{affine_latex(left)} {rels[0]} {affine_latex(right)}"
+
+
+def _bound(atom: Atom) -> Fraction:
+    return -atom.form.const / atom.form.coeffs[0][1]
+
+
+GE = r"\ge"
+
+
+def _rel(atom: Atom) -> str:
+    return "<" if atom.strict else r"\le"
+
+
+def condition_latex(atoms) -> str:
+    """Constraints with one-parameter bounds chained: \tfrac{1}{2} \le \alpha < \tfrac{2}{3}."""
+    out = []
+    for item in chains(atoms):
+        if item[0] == "atom":
+            out.append(atom_latex(item[1]))
+            continue
+        _, name, lo, hi = item
+        text = name_latex(name)
+        if hi is None:  # a lone lower bound reads better as alpha >= 0
+            out.append(f"{text} {'>' if lo.strict else GE} {number_latex(_bound(lo))}")
+            continue
+        if lo is not None:
+            text = f"{number_latex(_bound(lo))} {_rel(lo)} {text}"
+        if hi is not None:
+            text = f"{text} {_rel(hi)} {number_latex(_bound(hi))}"
+        out.append(text)
+    return ",\\ ".join(out) or r"\text{everywhere}"
+
+
+def regime_condition(row) -> str:
+    conds = [condition_latex(p.polyhedron.atoms) for p in row.polytopes]
+    return conds[0] if len(conds) == 1 else r"\text{ or }".join(f"({c})" for c in conds)
+
+
+def cases_latex(section: ClaimReport, side: int) -> str:
+    """One side of the claim as \\begin{cases} formula & condition \\\\ ... \\end{cases}."""
+    rows = [f"  {affine_latex(r.sides[side].formula)}, & {regime_condition(r)}"
+            for r in section.regimes]
+    sym = r"\mathrm{lhs}" if side == 0 else r"\mathrm{rhs}"
+    return ("\\[\n" + sym + " = \\begin{cases}\n" + " \\\\\n".join(rows) + "\n\\end{cases}\n\\]")
+
+
+def counterexample_table(section: ClaimReport, limit: int = 8) -> str:
+    names = list(section.counterexamples[0].point) if section.counterexamples else []
+    cols = "c" * (len(names) + 4)
+    head = " & ".join([f"${name_latex(n)}$" for n in names] + ["lhs", "rhs", "difference", "inside"])
+    rows = [" & ".join([f"${number_latex(c.point[n])}$" for n in names]
+                       + [f"${number_latex(c.lhs_value)}$", f"${number_latex(c.rhs_value)}$",
+                          f"${number_latex(c.difference)}$", "yes" if c.strictly_inside else "boundary"])
+            + r" \\" for c in section.counterexamples[:limit]]
+    return "\n".join([f"\\begin{{tabular}}{{{cols}}}", r"\hline", head + r" \\", r"\hline"] + rows
+                     + [r"\hline", r"\end{tabular}"])
+
+
+def _summary(section: ClaimReport) -> list[str]:
+    out = []
+    if section.thresholds:
+        items = ", ".join(f"${equation_latex(t.form)}$" for t in section.thresholds)
+        out.append(f"Thresholds: {items}.")
+    f = section.failure
+    if f is not None and f.pieces:
+        where = "; ".join(f"${regime_condition_of(p.polyhedron)}$ (dimension {p.dim})" for p in f.pieces)
+        share = escape(f"{num(f.share)} ({f.share_note})" if f.share is not None else f.share_note)
+        out.append(f"The claim fails on: {where}. Share of the region: {share}.")
+    if section.redundant:
+        out.append("Redundant bounds: " + ", ".join(f"\\texttt{{{escape(p.name)}}}" for p in section.redundant) + ".")
+    for g in section.gaps:
+        if g.value is not None:
+            out.append(f"$\\max(\\mathrm{{{g.direction.replace(' ', '')}}}) = {number_latex(g.value)}$"
+                       + ("" if g.attained else " (supremum, not attained)") + ".")
+    return out
+
+
+def regime_condition_of(poly) -> str:
+    return condition_latex(poly.atoms)
+
+
+def section_latex(section: ClaimReport) -> str:
+    parts = [f"\\subsection*{{{escape(section.title)}}}",
+             f"\\textbf{{{section.status.upper()}}}: \\texttt{{{escape(section.statement)}}}\\par"]
+    for side, label in enumerate(section.labels):
+        parts.append(f"{'Left' if side == 0 else 'Right'} side, \\texttt{{{escape(label)}}}:")
+        parts.append(cases_latex(section, side))
+    parts += [p + "\\par" for p in _summary(section)]
+    if section.counterexamples:
+        parts += ["Counterexamples (best first):\\par", "\\begin{center}", counterexample_table(section),
+                  "\\end{center}"]
+    return "\n".join(parts)
+
+
+def render_latex(report: Report) -> str:
+    """A LaTeX fragment (needs amsmath) with every section, the solver versions and the caution."""
+    head = [f"% generated by gdof: {escape(report.title)}", f"\\section*{{{escape(report.title or 'Report')}}}"]
+    if report.source:
+        head.append(f"Source: {escape(report.source)}\\par")
+    body = [section_latex(s) for s in report.sections]
+    have = ", ".join(f"{k} {v}" for k, v in report.versions.items())
+    tail = [f"\\paragraph{{Solver.}} {escape(report.solver)} ({escape(have)}).",
+            f"\\paragraph{{Caution.}} {escape(report.caution)}"]
+    return "\n\n".join(head + body + tail) + "\n"
+
+
+def latex_document(fragment_file: str = "report.tex", figures=()) -> str:
+    """A standalone document that \\input's the fragment and includes the given figure files."""
+    figs = [f"\\begin{{figure}}[h]\\centering\\includegraphics[width=3.5in]{{{f}}}"
+            f"\\caption{{{escape(cap)}}}\\end{{figure}}" for f, cap in figures]
+    return "\n".join([r"\documentclass[11pt]{article}", r"\usepackage[margin=1in]{geometry}",
+                      r"\usepackage{amsmath,amssymb}", r"\usepackage{graphicx}",
+                      r"\begin{document}", f"\\input{{{fragment_file}}}"] + figs
+                     + [r"\clearpage" if figs else "", r"\end{document}", ""])

@@ -1,0 +1,93 @@
+"""Terminal rendering of a Report: one aligned table per claim plus short exact summaries.
+
+Why plain aligned columns (no box drawing): the output must survive copy-paste into e-mail and
+referee reports, and `grep` on a verdict must work.
+"""
+
+from __future__ import annotations
+
+from .expr import to_text
+from .report import ClaimReport, Report, failure_share_text, gap_text, num, point_text, solver_text
+
+
+def verdict_cell(row) -> str:
+    if row.verdict == "proved":
+        return "proved, certified" if row.certified else "proved (SMT, no certificate)"
+    return row.verdict
+
+
+def active_cell(row) -> str:
+    parts = [f"{s.label}: {', '.join(s.active)}" for s in row.sides if s.active]
+    return "; ".join(parts) if parts else "-"
+
+
+def table_rows(section: ClaimReport) -> tuple[list[str], list[list[str]]]:
+    """Header and rows of the regime table, shared by the text and Markdown renderers."""
+    head = ["regime", "constraints", "active bounds"] + [f"{lab}" for lab in section.labels] + ["verdict"]
+    rows = [[str(r.index), r.constraints, active_cell(r)] + [to_text(s.formula) for s in r.sides]
+            + [verdict_cell(r)] for r in section.regimes]
+    return head, rows
+
+
+def aligned(head: list[str], rows: list[list[str]]) -> list[str]:
+    widths = [max(len(x) for x in col) for col in zip(head, *rows)]
+    def line(cells):
+        return "  ".join(c.ljust(w) for c, w in zip(cells, widths)).rstrip()
+    return [line(head), line(["-" * w for w in widths])] + [line(r) for r in rows]
+
+
+def counterexample_lines(section: ClaimReport, limit: int = 5) -> list[str]:
+    out = []
+    for c in section.counterexamples[:limit]:
+        where = "strictly inside" if c.strictly_inside else "on the boundary"
+        out.append(f"  {point_text(c.point)}: lhs = {num(c.lhs_value)}, rhs = {num(c.rhs_value)}, "
+                   f"difference = {num(c.difference)} ({where}; {c.origin})")
+    return out
+
+
+def summary_lines(section: ClaimReport) -> list[str]:
+    """Thresholds, failure set, counterexamples, bounds, gaps: the same facts in every format."""
+    lines = []
+    if section.thresholds:
+        lines.append("Thresholds: " + "; ".join(t.text for t in section.thresholds))
+    f = section.failure
+    if f is not None and f.pieces:
+        lines.append(f"Fails on {len(f.pieces)} piece(s); {failure_share_text(f)}:")
+        lines += [f"  regime {p.regime}: {p.polyhedron.text()} (dimension {p.dim})" for p in f.pieces]
+    if section.counterexamples:
+        lines.append("Counterexamples (best first):")
+        lines += counterexample_lines(section)
+    if section.redundant:
+        lines.append("Redundant bounds: " + ", ".join(f"{p.name} ({p.note})" for p in section.redundant))
+    lines += [gap_text(g) for g in section.gaps]
+    return lines
+
+
+def section_lines(section: ClaimReport) -> list[str]:
+    head = f"[{section.status.upper()}] {section.title}"
+    if section.expect and section.expect != section.status:
+        head += f"   << declared {section.expect} >>"
+    lines = [head, f"  {section.statement}",
+             f"  parameters: {', '.join(section.names)}; {len(section.regimes)} regimes from "
+             f"{section.cells} cells; method {section.method}"
+             + (f"; one-shot check by {section.smt_solver}: {section.smt_status}" if section.smt_solver else "")]
+    if section.detail:
+        lines.append(f"  note: {section.detail}")
+    lines += [""] + ["  " + x for x in aligned(*table_rows(section))] + [""]
+    return lines + ["  " + x for x in summary_lines(section)]
+
+
+def render_text(report: Report) -> str:
+    """The whole report as terminal text, ending with solver versions and the caution."""
+    lines = []
+    if report.title:
+        lines.append(f"Report: {report.title}")
+    if report.source:
+        lines.append(f"Source: {report.source}")
+    lines.append(f"Solver: {solver_text(report)}")
+    for section in report.sections:
+        lines += [""] + section_lines(section)
+    counts = report.status_counts
+    lines += ["", f"Summary: {counts['proved']} proved, {counts['refuted']} refuted, "
+                  f"{counts['unknown']} unknown.", report.caution]
+    return "\n".join(lines) + "\n"

@@ -1,0 +1,243 @@
+"""One report object for what the region-wise prover found, read by every renderer.
+
+Why one structure: the terminal table, Markdown, LaTeX, JSON and the plots must never disagree, so
+each renderer is a pure function of the same `Report`, and nothing is recomputed while rendering.
+A `Report` holds one `ClaimReport` per (sub)claim, built from a `RegimeProof` without further solver
+work: per regime its constraints, interior point, affine formula and active named bounds of each side,
+verdict and certificate status; thresholds; the failure set; the best counterexamples; redundant bounds;
+maximum gaps; solver versions; and the caution that a verdict is about exponents only.
+
+Engine level: no channel vocabulary here beyond the caution, whose wording callers may replace.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from fractions import Fraction
+from typing import Mapping, Sequence
+
+from .analysis import Gap, PartReport
+from .claims import Claim
+from .expr import Affine, format_number
+from .failure import FailureRegion
+from .regime_geometry import Polytope
+from .regime_proof import RegimeProof
+from .region import Atom
+from .thresholds import Threshold
+from .witness import Counterexample
+
+CAUTION = ("GDoF statements are asymptotic in SNR: a verdict here says nothing about rates at any "
+           "finite SNR, and it covers only the claim exactly as encoded.")
+
+
+@dataclass(frozen=True)
+class SideRow:
+    """One compared expression on one regime: its affine formula and the named bounds attaining it."""
+
+    label: str
+    formula: Affine
+    active: tuple[str, ...]
+
+
+@dataclass(frozen=True)
+class RegimeRow:
+    """A regime as shown: convex pieces (usually one), an interior point, each side, the verdict."""
+
+    index: int
+    polytopes: tuple[Polytope, ...]
+    point: Mapping[str, Fraction]
+    dim: int
+    sides: tuple[SideRow, ...]
+    verdict: str
+    certified: bool
+    note: str = ""
+
+    @property
+    def constraints(self) -> str:
+        texts = [constraint_text(p.polyhedron.atoms) for p in self.polytopes]
+        return texts[0] if len(texts) == 1 else " or ".join(f"({t})" for t in texts)
+
+
+@dataclass(frozen=True)
+class ClaimReport:
+    """Everything reported about one (sub)claim; `claim` is kept for plots, not serialised."""
+
+    claim: Claim
+    name: str
+    label: str
+    statement: str
+    kind: str
+    status: str
+    method: str
+    detail: str
+    names: tuple[str, ...]
+    labels: tuple[str, ...]
+    regimes: tuple[RegimeRow, ...]
+    thresholds: tuple[Threshold, ...]
+    failure: FailureRegion | None
+    counterexamples: tuple[Counterexample, ...]
+    parts: tuple[PartReport, ...]
+    gaps: tuple[Gap, ...]
+    smt_solver: str
+    smt_status: str
+    agree: bool | None
+    certified: bool
+    cells: int
+    seconds: float
+    expect: str | None = None
+
+    @property
+    def title(self) -> str:
+        base = self.name or self.statement
+        return f"{base} [{self.label}]" if self.label else base
+
+    @property
+    def redundant(self) -> tuple[PartReport, ...]:
+        return tuple(p for p in self.parts if p.redundant)
+
+    def side_label(self, side: int) -> str:
+        return ("lhs", "rhs")[side] if side < 2 else str(side)
+
+
+@dataclass(frozen=True)
+class Report:
+    """A titled list of claim reports with the solver versions and the caution."""
+
+    title: str
+    source: str
+    sections: tuple[ClaimReport, ...]
+    solver: str
+    versions: Mapping[str, str] = field(default_factory=dict)
+    caution: str = CAUTION
+
+    @property
+    def status_counts(self) -> dict[str, int]:
+        return {s: sum(c.status == s for c in self.sections) for s in ("proved", "refuted", "unknown")}
+
+    def _repr_markdown_(self) -> str:
+        from .render_markdown import render_markdown
+        return render_markdown(self)
+
+    def _repr_html_(self) -> str:
+        from .render_markdown import render_html
+        return render_html(self)
+
+
+def _regime_row(regime, labels: Sequence[str]) -> RegimeRow:
+    sides = tuple(SideRow(labels[s], regime.forms[s],
+                          regime.active[s] if s < len(regime.active) else ())
+                  for s in range(len(labels)))
+    return RegimeRow(regime.index, regime.polytopes, dict(regime.point), regime.dim, sides,
+                     regime.status, regime.certified, regime.detail)
+
+
+def claim_report(proof: RegimeProof, label: str = "", expect: str | None = None) -> ClaimReport:
+    """The report of one RegimeProof (no solver calls; everything is read off the proof)."""
+    c = proof.claim
+    smt = proof.smt
+    return ClaimReport(
+        claim=c, name=c.name, label=label, statement=c.text(), kind=c.kind, status=proof.status,
+        method=proof.method, detail=proof.detail, names=proof.names, labels=proof.labels,
+        regimes=tuple(_regime_row(r, proof.labels) for r in proof.regimes),
+        thresholds=proof.thresholds, failure=proof.failure, counterexamples=proof.counterexamples,
+        parts=proof.parts, gaps=proof.gaps, smt_solver=smt.solver if smt else "",
+        smt_status=smt.status if smt else "", agree=proof.agree, certified=proof.certified,
+        cells=proof.cells, seconds=float(proof.timing.get("total", 0.0)), expect=expect)
+
+
+def build_report(proofs, title: str = "", source: str = "", solver: str = "z3",
+                 caution: str = CAUTION, versions: Mapping[str, str] | None = None) -> Report:
+    """A Report from a RegimeProof, a ClaimReport, or a sequence of them (or of (label, proof))."""
+    if isinstance(proofs, (RegimeProof, ClaimReport)):
+        proofs = [proofs]
+    sections = []
+    for item in proofs:
+        if isinstance(item, tuple):
+            item = claim_report(item[1], label=item[0])
+        elif isinstance(item, RegimeProof):
+            item = claim_report(item)
+        sections.append(item)
+    if versions is None:
+        from .smt import versions as solver_versions
+        versions = solver_versions()
+    return Report(title, source, tuple(sections), solver, dict(versions), caution)
+
+
+# ---------------------------------------------------------------------------------------------
+# constraints as papers write them: 1/2 <= alpha < 2/3 rather than two separate atoms
+# ---------------------------------------------------------------------------------------------
+
+def _single(atom: Atom):
+    """(name, bound, is_lower) for an atom in one parameter, else None."""
+    if len(atom.form.coeffs) != 1:
+        return None
+    name, c = atom.form.coeffs[0]
+    return name, -atom.form.const / c, c > 0
+
+
+def chains(atoms: Sequence[Atom]) -> list[tuple]:
+    """Display items: ('chain', name, lower atom or None, upper atom or None) for one-parameter
+    atoms (one item per parameter, in order of first mention), then ('atom', atom) for the rest."""
+    singles: dict[str, list] = {}
+    others = []
+    for a in atoms:
+        got = _single(a)
+        if got is None:
+            others.append(("atom", a))
+            continue
+        slot = singles.setdefault(got[0], [None, None])
+        slot[0 if got[2] else 1] = a
+    return [("chain", n, lo, hi) for n, (lo, hi) in singles.items()] + others
+
+
+def constraint_text(atoms: Sequence[Atom]) -> str:
+    """'1/2 <= alpha < 2/3, gamma > alpha' (exact numbers); 'everywhere' when there is no atom."""
+    out = []
+    for item in chains(atoms):
+        if item[0] == "atom":
+            out.append(item[1].text())
+            continue
+        _, name, lo, hi = item
+        text = name
+        if hi is None:  # a lone lower bound reads better as alpha >= 0
+            out.append(f"{name} {'>' if lo.strict else '>='} {num(_single(lo)[1])}")
+            continue
+        if lo is not None:
+            text = f"{num(_single(lo)[1])} {'<' if lo.strict else '<='} {text}"
+        if hi is not None:
+            text = f"{text} {'<' if hi.strict else '<='} {num(_single(hi)[1])}"
+        out.append(text)
+    return ", ".join(out) or "everywhere"
+
+
+# ---------------------------------------------------------------------------------------------
+# small shared text helpers (exact numbers, points) used by the renderers
+# ---------------------------------------------------------------------------------------------
+
+def num(q) -> str:
+    """An exact number as '3/4' (never a float)."""
+    return format_number(Fraction(q))
+
+
+def point_text(point: Mapping[str, Fraction]) -> str:
+    return ", ".join(f"{k} = {num(v)}" for k, v in point.items())
+
+
+def gap_text(g: Gap) -> str:
+    if g.value is None:
+        return f"sup({g.direction}) is unbounded" if g.point is not None or g.regime is not None \
+            else f"sup({g.direction}): not computed"
+    how = "attained" if g.attained else "supremum, approached but not attained"
+    where = f" at {point_text(g.point)}" if g.point else ""
+    return f"max({g.direction}) = {num(g.value)}{where} ({how})"
+
+
+def failure_share_text(f: FailureRegion) -> str:
+    if f.share is None:
+        return f"share of the region: {f.share_note}"
+    return f"share of the region: {num(f.share)} ({f.share_note})"
+
+
+def solver_text(report: Report) -> str:
+    have = ", ".join(f"{k} {v}" for k, v in report.versions.items())
+    return f"{report.solver} ({have})" if have else report.solver
