@@ -217,7 +217,7 @@ class LatexLexer:
         close = self.text.find("}", self.i)
         if not self.text.startswith("{", self.i) or close < 0:
             self.fail(f"expected '{{...}}' after '\\{macro}'", self.i)
-        word = self.text[self.i + 1:close].strip()
+        word = self.text[self.i + 1:close].strip().replace("\\_", "_")
         self.i = close + 1
         return word
 
@@ -231,7 +231,7 @@ class LatexLexer:
                       start)
         elif word in FUNCTION_WORDS:
             self.emit("func", word, start, self.i)
-        elif word and word[0] in _LETTERS and all(c in _ALNUM or c == "_" for c in word):
+        elif word and word[0] in _LETTERS | {"_"} and all(c in _ALNUM or c == "_" for c in word):
             self.name(word, start)
         else:
             self.fail(f"unsupported text '\\{macro}{{{word}}}'", start)
@@ -277,6 +277,9 @@ class LatexLexer:
                 k += 1
             elif ch.isspace() or ch in "{}":
                 k += 1
+            elif inner.startswith("\\_", k):
+                out.append("_")
+                k += 2
             elif ch in GREEK:
                 out.append(GREEK[ch])
                 k += 1
