@@ -108,7 +108,7 @@ def _rel(atom: Atom) -> str:
 
 
 def condition_latex(atoms) -> str:
-    """Constraints with one-parameter bounds chained: \tfrac{1}{2} \le \alpha < \tfrac{2}{3}."""
+    """Constraints with one-parameter bounds chained: 1/2 <= alpha < 2/3 in LaTeX."""
     out = []
     for item in chains(atoms):
         if item[0] == "atom":

@@ -34,7 +34,7 @@ def section_markdown(section: ClaimReport) -> list[str]:
         lines += [f"Note: {section.detail}", ""]
     lines += _table(*table_rows(section)) + [""]
     for s in summary_lines(section):
-        lines.append(f"    {s[2:]}" if s.startswith("  ") else f"- {s}")
+        lines.append(f"  - {s.strip()}" if s.startswith("  ") else f"- {s}")
     return lines + [""]
 
 

@@ -1,0 +1,22 @@
+"""Shared, cached region-wise proofs for the report, plot and bundle tests (each proof runs once)."""
+
+from functools import lru_cache
+from pathlib import Path
+
+from verifier.regime_proof import prove_by_regimes
+from verifier.report import claim_report
+from workbench.casefile import load_case
+
+ROOT = Path(__file__).resolve().parent.parent
+ETW = ROOT / "casebook/published/etkin_tse_wang_2008.toml"
+RELAY = ROOT / "casebook/demo/relay_manuscript.toml"
+W_CLAIM = "the W curve is the min of the symmetric outer bounds"
+RELAY_WRONG = "Theorem 1 as submitted: optimal for gamma > alpha > 1"
+
+
+@lru_cache(maxsize=None)
+def section(path, name):
+    case = load_case(path)
+    cc = next(c for c in case.claims if c.claim.name == name)
+    label, sub = cc.subclaims[0]
+    return claim_report(prove_by_regimes(sub), label, cc.expect)

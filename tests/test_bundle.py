@@ -1,0 +1,92 @@
+"""gdof bundle: every file present, atomic writes, and a main.tex that compiles when pdflatex exists."""
+
+import json
+import shutil
+import subprocess
+
+import pytest
+
+from report_fixtures import RELAY, RELAY_WRONG, section
+from verifier.errors import InputError
+from verifier.report import build_report
+from workbench import bundle_cmd
+from workbench.cli import main
+
+FILES = ["report.md", "report.tex", "main.tex", "report.json", "counterexamples.json",
+         "counterexamples.csv", "versions.txt", "plots/claim01_slice.png", "plots/claim01_slice.pdf",
+         "plots/claim01_map.png", "plots/claim01_map.pdf"]
+
+
+@pytest.fixture(scope="module")
+def report():
+    return build_report(section(RELAY, RELAY_WRONG), title="relay")
+
+
+@pytest.fixture(scope="module")
+def bundle(report, tmp_path_factory):
+    return bundle_cmd.write_bundle(report, tmp_path_factory.mktemp("b") / "out", str(RELAY))
+
+
+def test_all_files_present_and_not_empty(bundle):
+    for name in FILES:
+        assert (bundle / name).stat().st_size > 0, name
+    assert "asymptotic in SNR" in (bundle / "versions.txt").read_text()
+    assert "z3" in (bundle / "versions.txt").read_text()
+
+
+def test_counterexample_files_are_exact(bundle, report):
+    cex = report.sections[0].counterexamples
+    data = json.loads((bundle / "counterexamples.json").read_text())["counterexamples"]
+    assert [d["point"] for d in data] == [{k: str(v) for k, v in c.point.items()} for c in cex]
+    rows = (bundle / "counterexamples.csv").read_text().splitlines()
+    assert rows[0].startswith("claim,regime_label,alpha,gamma,lhs,rhs") and len(rows) == 1 + len(cex)
+
+
+def _no_leftovers(parent):
+    return [p.name for p in parent.iterdir() if p.name.startswith(".")] == []
+
+
+def test_failure_mid_write_leaves_no_bundle(report, tmp_path, monkeypatch):
+    def boom(*args, **kwargs):
+        raise RuntimeError("disk full (simulated)")
+    monkeypatch.setattr(bundle_cmd, "save_figure", boom)
+    with pytest.raises(RuntimeError):
+        bundle_cmd.write_bundle(report, tmp_path / "out")
+    assert not (tmp_path / "out").exists() and _no_leftovers(tmp_path)
+
+
+def test_existing_folder_refused_then_kept_on_failed_force(report, tmp_path, monkeypatch):
+    out = tmp_path / "out"
+    out.mkdir()
+    (out / "keep.txt").write_text("old")
+    with pytest.raises(InputError, match="already exists"):
+        bundle_cmd.write_bundle(report, out)
+    monkeypatch.setattr(bundle_cmd, "counterexamples_csv", lambda r: 1 / 0)
+    with pytest.raises(ZeroDivisionError):
+        bundle_cmd.write_bundle(report, out, force=True)
+    assert (out / "keep.txt").read_text() == "old" and _no_leftovers(tmp_path)
+
+
+def test_force_replaces(report, tmp_path):
+    out = tmp_path / "out"
+    out.mkdir()
+    (out / "keep.txt").write_text("old")
+    bundle_cmd.write_bundle(report, out, force=True)
+    assert not (out / "keep.txt").exists() and (out / "report.md").exists() and _no_leftovers(tmp_path)
+
+
+def test_cli_refuses_existing_outdir_before_proving(tmp_path, capsys):
+    (tmp_path / "out").mkdir()
+    assert main(["bundle", str(RELAY), str(tmp_path / "out")]) == 2
+    assert "already exists" in capsys.readouterr().err
+
+
+def test_main_tex_compiles(bundle, tmp_path):
+    if not shutil.which("pdflatex"):
+        pytest.skip("pdflatex is not installed on this machine; main.tex compilation not checked")
+    work = tmp_path / "tex"
+    shutil.copytree(bundle, work)
+    proc = subprocess.run(["pdflatex", "-interaction=nonstopmode", "-halt-on-error", "main.tex"],
+                          cwd=work, capture_output=True, text=True, timeout=120)
+    assert proc.returncode == 0, proc.stdout[-2000:]
+    assert (work / "main.pdf").stat().st_size > 0

@@ -1,0 +1,153 @@
+"""`gdof bundle CASE.toml OUTDIR`: everything a paper or a referee report needs, in one folder.
+
+Contents: report.md, report.tex (fragment) and main.tex (standalone, compiles with pdflatex),
+report.json, plots/ (PNG + PDF per claim: a 1-D slice, and a regime map for two-parameter claims),
+counterexamples.json / .csv (exact fractions as text), versions.txt (solvers, libraries, caution).
+
+Why atomic: a bundle is evidence; a half-written one (interrupted run, full disk, a plotting bug)
+must never be mistaken for a finished one.  The folder is built in a temporary sibling directory and
+renamed into place.  An existing OUTDIR is refused without --force; with --force the old folder is
+moved aside, the new one renamed in, and only then is the old one deleted (if the swap fails, the old
+folder is put back).
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+import os
+import platform
+import shutil
+import tempfile
+from pathlib import Path
+
+from verifier.errors import InputError
+from verifier.render_json import counterexample_json, render_json
+from verifier.render_latex import latex_document, render_latex
+from verifier.render_markdown import render_markdown
+from verifier.report import Report
+
+from .casefile import load_case
+from .check_cmd import select
+from .exit_codes import exit_code
+from .plots import regime_map, save_figure, slice_figure
+from .report_cmd import case_report, progress_bar
+
+
+def configure(p) -> None:
+    p.add_argument("case", help="a case file (TOML)")
+    p.add_argument("outdir", help="folder to create (refused if it exists, unless --force)")
+    p.add_argument("--claim", action="append", default=[], metavar="NAME",
+                   help="bundle only the named claim (repeatable)")
+    p.add_argument("--workers", type=int, default=1, help="processes for the region-wise prover (default 1)")
+    p.add_argument("--force", action="store_true", help="replace an existing OUTDIR (atomically)")
+
+
+def counterexample_rows(report: Report) -> tuple[list[str], list[list[str]]]:
+    names = sorted({n for s in report.sections for c in s.counterexamples for n in c.point})
+    head = ["claim", "regime_label"] + names + ["lhs", "rhs", "difference", "strictly_inside", "origin"]
+    rows = []
+    for s in report.sections:
+        for c in s.counterexamples:
+            d = counterexample_json(c)
+            rows.append([s.name, s.label] + [d["point"].get(n, "") for n in names]
+                        + [d["lhs"], d["rhs"], d["difference"], str(c.strictly_inside).lower(), c.origin])
+    return head, rows
+
+
+def counterexamples_csv(report: Report) -> str:
+    buf = io.StringIO()
+    writer = csv.writer(buf, lineterminator="\n")
+    head, rows = counterexample_rows(report)
+    writer.writerow(head)
+    writer.writerows(rows)
+    return buf.getvalue()
+
+
+def counterexamples_json(report: Report) -> str:
+    data = [{"claim": s.name, "regime_label": s.label, **counterexample_json(c)}
+            for s in report.sections for c in s.counterexamples]
+    return json.dumps({"counterexamples": data, "caution": report.caution}, indent=2, ensure_ascii=False) + "\n"
+
+
+def versions_text(report: Report, case_path: str = "") -> str:
+    import matplotlib
+    lines = ["gdof report bundle", f"case: {case_path}" if case_path else "", f"solver used: {report.solver}"]
+    lines += [f"{k}: {v}" for k, v in report.versions.items()]
+    lines += [f"python: {platform.python_version()}", f"matplotlib: {matplotlib.__version__}", "",
+              report.caution]
+    return "\n".join(x for x in lines if x is not None) + "\n"
+
+
+def write_plots(report: Report, folder: Path) -> list[tuple[str, str]]:
+    """Plots per section; returns (pdf file relative to the bundle, caption) for main.tex."""
+    plots = folder / "plots"
+    plots.mkdir()
+    figures = []
+    for k, s in enumerate(report.sections, 1):
+        if not s.names or not s.regimes:
+            continue
+        made = [("slice", slice_figure(s), f"{s.title}: both sides along {s.names[0]}")]
+        if len(s.names) == 2:
+            made.append(("map", regime_map(s), f"{s.title}: regimes in ({s.names[0]}, {s.names[1]})"))
+        for kind, fig, caption in made:
+            save_figure(fig, plots / f"claim{k:02d}_{kind}", ("png", "pdf"))
+            figures.append((f"plots/claim{k:02d}_{kind}.pdf", caption))
+    return figures
+
+
+def write_contents(report: Report, folder: Path, case_path: str = "") -> None:
+    """Every file of the bundle, into an existing (temporary) folder."""
+    (folder / "report.md").write_text(render_markdown(report), encoding="utf-8")
+    (folder / "report.tex").write_text(render_latex(report), encoding="utf-8")
+    (folder / "report.json").write_text(render_json(report), encoding="utf-8")
+    (folder / "counterexamples.json").write_text(counterexamples_json(report), encoding="utf-8")
+    (folder / "counterexamples.csv").write_text(counterexamples_csv(report), encoding="utf-8")
+    (folder / "versions.txt").write_text(versions_text(report, case_path), encoding="utf-8")
+    figures = write_plots(report, folder)
+    (folder / "main.tex").write_text(latex_document("report.tex", figures), encoding="utf-8")
+
+
+def write_bundle(report: Report, outdir: str | Path, case_path: str = "", force: bool = False) -> Path:
+    """Build the bundle in a temporary sibling and move it into place (see the module docstring)."""
+    out = Path(outdir)
+    if out.exists() and not force:
+        raise InputError(f"bundle: '{out}' already exists (use --force to replace it)")
+    out.parent.mkdir(parents=True, exist_ok=True)
+    tmp = Path(tempfile.mkdtemp(prefix=f".{out.name}.tmp-", dir=out.parent))
+    try:
+        write_contents(report, tmp, case_path)
+        _swap_in(tmp, out)
+    except BaseException:
+        shutil.rmtree(tmp, ignore_errors=True)
+        raise
+    return out
+
+
+def _swap_in(new: Path, out: Path) -> None:
+    if not out.exists():
+        os.rename(new, out)
+        return
+    old = Path(tempfile.mkdtemp(prefix=f".{out.name}.old-", dir=out.parent))
+    os.rmdir(old)
+    os.rename(out, old)
+    try:
+        os.rename(new, out)
+    except BaseException:
+        os.rename(old, out)
+        raise
+    shutil.rmtree(old, ignore_errors=True)
+
+
+def run(args) -> int:
+    case = load_case(args.case, args.solver, args.timeout)
+    if Path(args.outdir).exists() and not args.force:  # refuse before the long proof, not after
+        raise InputError(f"bundle: '{args.outdir}' already exists (use --force to replace it)")
+    report = case_report(case, select(case, args.claim), args.solver, args.timeout, args.cross_check,
+                         max(1, args.workers), progress_bar())
+    write_bundle(report, args.outdir, str(args.case), args.force)
+    counts = report.status_counts
+    print(f"bundle written to {args.outdir}: {len(report.sections)} claims, {counts['proved']} proved, "
+          f"{counts['refuted']} refuted, {counts['unknown']} unknown")
+    return exit_code(s.status for s in report.sections)

@@ -1,0 +1,103 @@
+"""`gdof report CASE.toml`: the region-wise proof of every (sub)claim, rendered in one format.
+
+Why a separate command from `check`: check gives one verdict per claim quickly; report runs the
+region-wise prover (verifier.regime_proof) and shows why -- regimes, active bounds, thresholds,
+failure sets -- in text, Markdown, LaTeX or exact JSON, all from one verifier.report.Report.
+"""
+
+from __future__ import annotations
+
+import os
+import sys
+import tempfile
+from pathlib import Path
+
+from verifier.errors import RegionError
+from verifier.regime_proof import prove_by_regimes
+from verifier.render_json import render_json
+from verifier.render_latex import render_latex
+from verifier.render_markdown import render_markdown
+from verifier.render_text import render_text
+from verifier.report import Report, build_report, claim_report
+
+from . import verdict_text as vt
+from .casefile import load_case
+from .check_cmd import select
+from .exit_codes import exit_code
+
+RENDERERS = {"text": render_text, "markdown": render_markdown, "latex": render_latex, "json": render_json}
+
+
+def configure(p) -> None:
+    p.add_argument("case", help="a case file (TOML)")
+    p.add_argument("--format", choices=tuple(RENDERERS), default="text", help="output format (default text)")
+    p.add_argument("--claim", action="append", default=[], metavar="NAME",
+                   help="report only the named claim (repeatable)")
+    p.add_argument("--workers", type=int, default=1, help="processes for the region-wise prover (default 1)")
+    p.add_argument("--out", metavar="FILE", help="write to FILE (atomically) instead of stdout")
+
+
+def progress_bar(stream=None):
+    """A progress callback drawing one updating line on stderr, or None when stderr is not a TTY."""
+    stream = stream or sys.stderr
+    if not stream.isatty():
+        return None
+
+    def show(label: str):
+        def report(stage: str, done: int, total: int) -> None:
+            filled = int(20 * done / max(total, 1))
+            stream.write(f"\r{label[:40]:40} {stage:8} [{'#' * filled}{'.' * (20 - filled)}] {done}/{total}")
+            stream.flush()
+        return report
+    return show
+
+
+def case_report(case, case_claims, solver="z3", timeout=30.0, cross_check=False, workers=1,
+                progress=None) -> Report:
+    """Run prove_by_regimes on every sub-claim of the chosen case claims and build the Report.
+
+    A sub-claim whose region misses the claim's (a regime of a split bound) is skipped, as in check."""
+    sections = []
+    for cc in case_claims:
+        got = 0
+        for label, sub in cc.subclaims:
+            try:
+                proof = prove_by_regimes(sub, solver, timeout, cross_check, workers,
+                                         progress(sub.name or label) if progress else None)
+            except RegionError:
+                if len(cc.subclaims) == 1:
+                    raise
+                continue
+            sections.append(claim_report(proof, label, cc.expect))
+            got += 1
+        if not got:
+            raise RegionError(f"the region of claim '{cc.claim.name}' meets none of its regimes")
+    if progress:
+        sys.stderr.write("\r" + " " * 80 + "\r")
+    return build_report(sections, case.title, case.source, "z3 and cvc5" if cross_check else solver,
+                        caution=vt.CAUTION)
+
+
+def write_atomic(path: str | Path, text: str) -> None:
+    """Write a file so that a reader never sees half of it: temporary sibling, then os.replace."""
+    path = Path(path)
+    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", dir=path.parent or ".")
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8") as fh:
+            fh.write(text)
+        os.replace(tmp, path)
+    except BaseException:
+        Path(tmp).unlink(missing_ok=True)
+        raise
+
+
+def run(args) -> int:
+    case = load_case(args.case, args.solver, args.timeout)
+    report = case_report(case, select(case, args.claim), args.solver, args.timeout, args.cross_check,
+                         max(1, args.workers), progress_bar())
+    text = RENDERERS[args.format](report)
+    if args.out:
+        write_atomic(args.out, text)
+    else:
+        sys.stdout.write(text)
+    return exit_code(s.status for s in report.sections)
