@@ -201,10 +201,15 @@ def render_latex(report: Report) -> str:
 
 
 def latex_document(fragment_file: str = "report.tex", figures=()) -> str:
-    """A standalone document that \\input's the fragment and includes the given figure files."""
-    figs = [f"\\begin{{figure}}[h]\\centering\\includegraphics[width=3.5in]{{{f}}}"
-            f"\\caption{{{escape(cap)}}}\\end{{figure}}" for f, cap in figures]
-    return "\n".join([r"\documentclass[11pt]{article}", r"\usepackage[margin=1in]{geometry}",
-                      r"\usepackage{amsmath,amssymb}", r"\usepackage{graphicx}",
-                      r"\begin{document}", f"\\input{{{fragment_file}}}"] + figs
-                     + [r"\clearpage" if figs else "", r"\end{document}", ""])
+    """A standalone document that \\input's the fragment and includes the given figure files
+    (a \\clearpage after every four figures keeps LaTeX's float queue short)."""
+    figs = []
+    for k, (f, cap) in enumerate(figures, 1):
+        figs.append(f"\\begin{{figure}}[htbp]\\centering\\includegraphics[width=3.5in]{{{f}}}"
+                    f"\\caption{{{escape(cap)}}}\\end{{figure}}")
+        if k % 4 == 0:
+            figs.append(r"\clearpage")
+    return "\n".join([r"\documentclass[11pt]{article}", r"\usepackage[T1]{fontenc}",
+                      r"\usepackage[margin=1in]{geometry}", r"\usepackage{amsmath,amssymb}",
+                      r"\usepackage{graphicx}", r"\begin{document}", f"\\input{{{fragment_file}}}"] + figs
+                     + [r"\end{document}", ""])
