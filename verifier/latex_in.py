@@ -244,6 +244,7 @@ class LatexLexer:
 
     def subscript(self) -> str:
         """After `_`: `{sd}`, `{1}`, `{\\alpha}`, `{\\mathrm{sd}}`, `1`, `\\alpha`, leniently `12`."""
+        underscore = self.i
         self.i += 1
         t, start = self.text, self.i
         if t.startswith("{", start):
@@ -253,22 +254,23 @@ class LatexLexer:
             while inner.count("{") != inner.count("}") and close >= 0:
                 close = t.find("}", self.i)
                 inner, self.i = self._subscript_body(start + 1, close), close + 1
-            return self._subscript_text(inner, start)
+            return self._subscript_text(inner, start + 1, underscore)
         if t.startswith("\\", start):
             word, _ = self.read_macro()
-            return self._subscript_text("\\" + word, start)
+            return self._subscript_text("\\" + word, start, underscore)
         j = start
         while j < len(t) and t[j] in _ALNUM:
             j += 1
         self.i = j
-        return self._subscript_text(t[start:j], start)
+        return self._subscript_text(t[start:j], start, underscore)
 
     def _subscript_body(self, begin: int, close: int) -> str:
         if close < 0:
             self.fail("unclosed subscript '{'", begin - 1)
         return self.text[begin:close]
 
-    def _subscript_text(self, inner: str, start: int) -> str:
+    def _subscript_text(self, inner: str, start: int, underscore: int) -> str:
+        """The identifier part of a subscript; `start` is the offset of `inner` in the fragment."""
         out, k = [], 0
         while k < len(inner):
             ch = inner[k]
@@ -296,7 +298,7 @@ class LatexLexer:
             else:
                 self.fail(f"unsupported character {ch!r} in subscript", start + k)
         if not out:
-            self.fail("empty subscript", start)
+            self.fail("empty subscript", underscore)
         return "".join(out)
 
 

@@ -216,10 +216,11 @@ class Parser:
         negative = self.at("op", "-")
         if negative:
             self.advance()
-        tok = self.advance()
-        if tok.kind != "num" or tok.value.denominator != 1:
+        first, tok = self.peek().pos if opener is None else opener.pos, self.advance()
+        if tok.kind != "num" or tok.value.denominator != 1 or \
+                (opener is not None and not (self.at("close") or self.at("gclose"))):
             self.fail("unsupported exponent: only '^+' (positive part) and integer powers of "
-                      "constants are allowed", tok.pos)
+                      "constants are allowed", first)
         k = -int(tok.value) if negative else int(tok.value)
         end = self.close(opener).end if opener is not None else tok.end
         return k, end
