@@ -9,7 +9,7 @@ from verifier.prove import prove
 from verifier.region import Region, atoms_of
 from workbench.cli import main
 
-NET = "casebook/networks/two_hop_relay.toml"
+NET = "examples/two_hop_relay.toml"
 
 
 def test_network_fragment_is_a_loadable_case_with_the_relay_cutset(capsys, tmp_path):

@@ -74,6 +74,6 @@ def prove(claim: Claim, solver: str = "z3", timeout: float = 30.0, cross_check: 
         cex = best_counterexample(claim, decisive.model, decisive.solver, min(timeout, 10.0))
     else:
         from .witness import describe
-        cex = describe(claim, decisive.model, witness_region(claim).interior().contains(decisive.model),
+        cex = describe(claim, decisive.model, witness_region(claim).relative_interior().contains(decisive.model),
                        "solver model")
     return Verdict(claim, REFUTED, used, cex, detail, seconds, answers)

@@ -104,8 +104,26 @@ class Polyhedron:
     def closure(self) -> "Polyhedron":
         return Polyhedron(tuple(a.relaxed() for a in self.atoms))
 
+    def relative_interior(self) -> "Polyhedron":
+        """Strict everywhere except explicit equalities (f >= 0 and -f >= 0 both present), which stay:
+        a region like `alpha == 1` then still has points "inside" it."""
+        forms = {a.form for a in self.atoms if not a.strict}
+        return Polyhedron(tuple(a if (not a.strict and _neg(a.form) in forms) else a.tightened()
+                                for a in self.atoms))
+
     def text(self) -> str:
-        return ", ".join(a.text() for a in self.atoms) if self.atoms else "everywhere"
+        if not self.atoms:
+            return "everywhere"
+        forms = {a.form for a in self.atoms if not a.strict}
+        out, done = [], set()
+        for a in self.atoms:
+            if not a.strict and _neg(a.form) in forms:
+                if _neg(a.form) not in done:
+                    out.append(atom_text(a.form, "=="))
+                    done.add(a.form)
+                continue
+            out.append(a.text())
+        return ", ".join(out)
 
 
 def _dedupe(atoms: Iterable[Atom]) -> tuple[Atom, ...]:
@@ -149,6 +167,9 @@ class Region:
 
     def closure(self) -> "Region":
         return Region(tuple(p.closure() for p in self.pieces))
+
+    def relative_interior(self) -> "Region":
+        return Region(tuple(p.relative_interior() for p in self.pieces))
 
     def substitute(self, values: Mapping[str, Fraction]) -> "Region":
         """Fix some parameters to numbers; atoms that become constant are kept only when false."""

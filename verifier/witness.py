@@ -13,11 +13,13 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import Mapping
 
-from .claims import Claim, compared_exprs, violated_at, violation_query, witness_region
-from .expr import evaluate
+from .claims import Claim, compared_exprs, violated_at, violation_query, witness_names, witness_region
+from .expr import evaluate, param
+from .region import Region, atoms_of
 from .smt import check
 
 DENOMINATORS = tuple(range(1, 25)) + (30, 36, 40, 48, 60, 72, 84, 96, 120)
+BOXES = (4, 64, None)
 
 
 @dataclass(frozen=True)
@@ -59,15 +61,35 @@ def describe(claim: Claim, point: Mapping[str, Fraction], strictly_inside: bool,
                           strictly_inside, origin)
 
 
+def _box(names, bound: int) -> Region:
+    """|x| <= bound for every witness variable: small magnitudes before small denominators."""
+    atoms = []
+    for n in names:
+        atoms += atoms_of(param(n), "<=", bound) + atoms_of(param(n), ">=", -bound)
+    return Region.of(*atoms)
+
+
 def small_denominator_point(claim: Claim, solver: str, timeout: float, inside: bool):
-    """First lattice point (smallest d) where the claim fails, inside the open region if `inside`."""
+    """A lattice point (smallest d, within the smallest box) where the claim fails.
+
+    `inside` asks for the relative interior (strict except explicit equalities).  Boxes come first so
+    that an unbounded region yields alpha = 2 rather than alpha = 32539; a box that admits no
+    violation at all is skipped with one query.
+    """
     region = witness_region(claim)
     if inside:
-        region = region.interior()
-    for d in DENOMINATORS:
-        answer = check(violation_query(claim, region, grid=d), solver, timeout)
-        if answer.status == "sat" and violated_at(claim, answer.model):
-            return answer.model
+        region = region.relative_interior()
+    if check(violation_query(claim, region), solver, timeout).status != "sat":
+        return None
+    names = witness_names(claim)
+    for bound in BOXES:
+        boxed = region if bound is None else region.meet(_box(names, bound))
+        if bound is not None and check(violation_query(claim, boxed), solver, timeout).status != "sat":
+            continue
+        for d in DENOMINATORS:
+            answer = check(violation_query(claim, boxed, grid=d), solver, timeout)
+            if answer.status == "sat" and violated_at(claim, answer.model):
+                return answer.model
     return None
 
 
@@ -79,6 +101,6 @@ def best_counterexample(claim: Claim, model: Mapping[str, Fraction], solver: str
         return describe(claim, point, True, "smallest common denominator")
     point = small_denominator_point(claim, solver, timeout, inside=False)
     if point is not None:
-        return describe(claim, point, witness_region(claim).interior().contains(point),
+        return describe(claim, point, witness_region(claim).relative_interior().contains(point),
                         "smallest common denominator; no violation lies strictly inside")
-    return describe(claim, model, witness_region(claim).interior().contains(model), "solver model")
+    return describe(claim, model, witness_region(claim).relative_interior().contains(model), "solver model")

@@ -38,7 +38,7 @@ def uncovered_point(region, cover, names, solver, timeout):
     first = check(base, solver, timeout)
     if first.status != "sat":
         return first.status, None
-    for inner in (region.interior(), region):
+    for inner in (region.relative_interior(), region):
         for d in DENOMINATORS[:12]:
             a = check(Query(inner, (), d, names, (cover,)), solver, timeout)
             if a.status == "sat":

@@ -53,7 +53,10 @@ def expand(case_claim, case) -> None:
                                            for p in piece.where.pieces))) for n in used]
     smooth = {n: case.piecewise[n].expr for n in used if case.piecewise[n].expr is not None}
     rough = [n for n in used if n not in smooth]
-    claim = substitute_claim(claim, smooth)
+    covered = claim.region
+    for n in smooth:  # never judge a value the scheme does not define: stay inside its regimes
+        covered = covered.meet(dict(case_claim.coverage)[n])
+    claim = substitute_claim(claim, smooth, covered if smooth else None)
     if not rough:
         case_claim.subclaims = [("", claim)]
         return

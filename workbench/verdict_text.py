@@ -14,8 +14,7 @@ from verifier.prove import Verdict
 from verifier.smt import versions
 from verifier.witness import Counterexample
 
-CAUTION = ("A GDoF statement is asymptotic in SNR: a verdict here proves nothing about rates at any "
-           "finite SNR, and it covers only the claims exactly as encoded in the case file.")
+from verifier.report import CAUTION  # one wording everywhere: terminal, bundles, reports
 
 TAGS = {"proved": "PROVED ", "refuted": "REFUTED", "unknown": "UNKNOWN"}
 
@@ -38,7 +37,7 @@ def solver_line(solver: str, timeout: float, cross: bool) -> str:
 def side_names(verdict: Verdict) -> tuple[str, str]:
     c = verdict.claim
     if c.kind == "monotone":
-        return (f"value at {c.param}", f"value at {c.param}'")
+        return ("value at the first point", f"value at the second point ({c.param}' > {c.param})")
     if c.kind == "symmetric":
         return ("value", f"value with {c.swap[0]} and {c.swap[1]} swapped")
     if c.kind == "reduces-to":
