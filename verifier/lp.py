@@ -310,21 +310,26 @@ def strict_farkas(form: Affine, atoms: Sequence[Atom], names: Sequence[str]) -> 
     """form == sum y_i atoms_i (no constant) with positive total weight on strict atoms, if any.
 
     By Motzkin's transposition theorem this exists exactly when min form = 0 on the closure and
-    the face where form = 0 misses the (partly open) polyhedron."""
+    the face where form = 0 misses the (partly open) polyhedron.  Solved homogenised:
+    max sum_strict y s.t. sum y_i a_i = lam * form, sum_strict y <= 1, y, lam >= 0; then y / lam.
+    (lam = 0 with strict weight would make a strict atom an implicit equality: an empty polyhedron.)"""
     rows = rows_of([a.form for a in atoms], names)
     f = rows_of([form], names)[0]
     m, n = len(rows), len(names)
     strict = [a.strict for a in atoms]
-    # variables: y_1..y_m, slack s; rows: linear parts match, constants match, sum_strict y + s = 1
-    M = [[rows[i][0][k] for i in range(m)] + [ZERO] for k in range(n)]
-    M.append([rows[i][1] for i in range(m)] + [ZERO])
-    M.append([ONE if strict[i] else ZERO for i in range(m)] + [ONE])
-    r = list(f[0]) + [f[1], ONE]
-    c = [ONE if strict[i] else ZERO for i in range(m)] + [ZERO]
-    res = solve_standard(c, M, r)
-    if res.status != "optimal" or res.value <= 0:
+    if not any(strict):
         return None
-    return Farkas(ZERO, tuple((i, y) for i, y in enumerate(res.y[:m]) if y))
+    # variables: y_1..y_m, lam, slack s
+    M = [[rows[i][0][k] for i in range(m)] + [-f[0][k], ZERO] for k in range(n)]
+    M.append([rows[i][1] for i in range(m)] + [-f[1], ZERO])
+    M.append([ONE if strict[i] else ZERO for i in range(m)] + [ZERO, ONE])
+    r = [ZERO] * (n + 1) + [ONE]
+    c = [ONE if strict[i] else ZERO for i in range(m)] + [ZERO, ZERO]
+    res = solve_standard(c, M, r)
+    if res.status != "optimal" or res.value <= 0 or res.y[m] <= 0:
+        return None
+    lam = res.y[m]
+    return Farkas(ZERO, tuple((i, y / lam) for i, y in enumerate(res.y[:m]) if y))
 
 
 def check_farkas(form: Affine, atoms: Sequence[Atom], cert: Farkas, strict: bool) -> bool:

@@ -1,0 +1,196 @@
+"""Regime decomposition and the region-wise prover: published curves, a hand-derived 3-parameter case,
+and properties on random claims (partition, affinity, agreement with the one-shot SMT prover)."""
+
+from fractions import Fraction as F
+
+import pytest
+from hypothesis import assume, given, settings
+from hypothesis import strategies as st
+
+from verifier.claims import Side, monotone, reduces_to, relation, symmetric
+from verifier.errors import RegionError
+from verifier.expr import affine, evaluate, max_, min_, param
+from verifier.prove import prove
+from verifier.regime_proof import prove_by_regimes
+from verifier.regimes import decompose
+from verifier.region import Polyhedron, Region, atoms_of
+from verifier.thresholds import slice_profile
+from tests.strategies import exprs, points
+
+a, b, g = param("alpha"), param("beta"), param("gamma")
+# Etkin, Tse, Wang, "Gaussian interference channel capacity to within one bit", IEEE Trans. IT 54(12),
+# 2008: the symmetric two-user GDoF curve d(alpha) (the "W" curve), from memory.
+W = min_(1, max_(a / 2, 1 - a / 2), max_(a, 1 - a))
+ALPHA_NONNEG = Region.of(*atoms_of(a, ">=", 0))
+
+
+def test_w_curve_has_five_regimes_with_published_breakpoints_and_slopes():
+    rp = prove_by_regimes(relation(W, "<=", 1, ALPHA_NONNEG), improve_witness=False)
+    assert rp.status == "proved" and rp.certified and rp.agree
+    # Etkin-Tse-Wang 2008: breakpoints 1/2, 2/3, 1, 2; slopes -1, +1, -1/2, +1/2, 0 (from memory).
+    assert [r.forms[0] for r in rp.regimes] == [1 - a, a, 1 - a / 2, a / 2, affine({}, 1)]
+    assert [r.forms[0].coeff("alpha") for r in rp.regimes] == [-1, 1, F(-1, 2), F(1, 2), 0]
+    assert [t.text for t in rp.thresholds] == ["alpha = 1/2", "alpha = 2/3", "alpha = 1", "alpha = 2"]
+    assert [t.between for t in rp.thresholds] == [((0, 1),), ((1, 2),), ((2, 3),), ((3, 4),)]
+    profile = slice_profile([W], ALPHA_NONNEG, "alpha", {})
+    assert profile.breakpoints == ((F(1, 2), F(2, 3), F(1), F(2)),)
+    assert [s[0] for s in profile.slopes] == [-1, 1, F(-1, 2), F(1, 2), 0]
+    assert profile.intervals[0] == (0, F(1, 2)) and profile.intervals[-1] == (2, None)
+
+
+def test_boundary_points_belong_to_the_regime_on_their_right():
+    # Documented convention (verifier.regimes): a cut h = 0 goes to the side h >= 0.
+    cells = decompose([W], ALPHA_NONNEG, ("alpha",))
+    for x, form in [(F(1, 2), a), (F(2, 3), 1 - a / 2), (F(1), a / 2), (F(2), affine({}, 1))]:
+        owners = [c for c in cells if Polyhedron(c.atoms).contains({"alpha": x})]
+        assert len(owners) == 1 and owners[0].forms[0] == form
+
+
+# --- a 3-parameter claim derived by hand --------------------------------------------------------
+# Region gamma > alpha > 1, beta >= 0; lhs = min(gamma, alpha + beta, 2 alpha), rhs = max(alpha,
+# gamma - beta).  With u = gamma - alpha > 0: lhs = alpha + min(u, beta, alpha) and
+# rhs = alpha + max(0, u - beta).  Hand derivation (interiors):
+#   R1: beta < u, beta < alpha      lhs = alpha + beta,  rhs = gamma - beta   (fails iff 2 beta < u)
+#   R2: u < beta, u < alpha         lhs = gamma,         rhs = alpha          (holds)
+#   R3a: alpha < beta < u           lhs = 2 alpha,       rhs = gamma - beta   (fails iff beta < u - alpha)
+#   R3b: alpha < u < beta           lhs = 2 alpha,       rhs = alpha          (holds)
+# Adjacent pairs: R1|R2 and R3a|R3b across beta = u (printed gamma = alpha + beta), R1|R3a across beta = alpha, R2|R3b across u = alpha.
+HAND_REGION = Region.of(*atoms_of(g, ">", a), *atoms_of(a, ">", 1), *atoms_of(b, ">=", 0))
+HAND_LHS = min_(g, a + b, 2 * a)
+HAND_RHS = max_(a, g - b)
+HAND = {"R1": (a + b, g - b, "refuted"), "R2": (g, a, "proved"),
+        "R3a": (2 * a, g - b, "refuted"), "R3b": (2 * a, a, "proved")}
+
+
+def test_three_parameter_claim_matches_the_hand_derived_regimes():
+    rp = prove_by_regimes(relation(HAND_LHS, ">=", HAND_RHS, HAND_REGION), improve_witness=False)
+    found = {(r.forms[0], r.forms[1]): r for r in rp.regimes}
+    assert set(found) == {(l, r) for l, r, _ in HAND.values()}
+    for name, (l, r, status) in HAND.items():
+        assert found[(l, r)].status == status, name
+    idx = {name: found[(l, r)].index for name, (l, r, _) in HAND.items()}
+    pair = lambda x, y: (min(idx[x], idx[y]), max(idx[x], idx[y]))  # noqa: E731
+    by_text = {t.text: set(t.between) for t in rp.thresholds}
+    assert by_text == {"gamma = alpha + beta": {pair("R1", "R2"), pair("R3a", "R3b")},
+                       "alpha = beta": {pair("R1", "R3a")}, "alpha = gamma/2": {pair("R2", "R3b")}}
+    assert rp.status == "refuted" and rp.agree
+    # the failure set is exactly lhs < rhs (hand: 2 beta < gamma - alpha or beta < gamma - 2 alpha)
+    for piece in rp.failure.pieces:
+        p = piece.point
+        assert evaluate(HAND_LHS, p) < evaluate(HAND_RHS, p) and HAND_REGION.contains(p)
+
+
+# --- properties on random claims --------------------------------------------------------------
+NAMES = ("alpha", "beta")
+BOX = Region.of(*[x for n in NAMES for x in atoms_of(param(n), ">=", 0) + atoms_of(param(n), "<=", 3)])
+RELS = st.sampled_from(["==", "<=", ">=", "<", ">"])
+
+
+def _check_partition_and_affinity(rp, region, exprs_, samples):
+    cells = [(r, c) for r in rp.regimes for c in r.cells]
+    for p in samples:
+        if not region.contains(p):
+            assert not any(Polyhedron(c.atoms).contains(p) for _, c in cells)
+            continue
+        owners = [(r, c) for r, c in cells if Polyhedron(c.atoms).contains(p)]
+        assert len(owners) == 1, p
+        shown = [r for r in rp.regimes if any(t.polyhedron.contains(p) for t in r.polytopes)]
+        assert shown == [owners[0][0]]
+        r, c = owners[0]
+        for e, f in zip(exprs_, r.forms):
+            assert evaluate(e, p) == evaluate(f, p)
+    for r in rp.regimes:
+        for t in r.polytopes:
+            for v in t.vertices + (t.point,):
+                for e, f in zip(exprs_, r.forms):
+                    assert evaluate(e, v) == evaluate(f, v)
+            assert region.contains(t.point)
+
+
+@settings(max_examples=40, deadline=None)
+@given(exprs(NAMES, max_leaves=6), exprs(NAMES, max_leaves=6), RELS, st.lists(points(NAMES, 0, 3), max_size=20))
+def test_random_claims_partition_the_region_and_agree_with_one_shot_prove(lhs, rhs, rel, samples):
+    claim = relation(lhs, rel, rhs, BOX)
+    rp = prove_by_regimes(claim, smt="none", improve_witness=False)
+    _check_partition_and_affinity(rp, BOX, (lhs, rhs), samples + [{"alpha": F(3), "beta": F(0)}])
+    one_shot = prove(claim, improve_witness=False)
+    assert rp.status == one_shot.status
+    assert all(r.certified for r in rp.regimes if r.status == "proved")
+
+
+@settings(max_examples=25, deadline=None)
+@given(exprs(NAMES, max_leaves=5), st.lists(points(NAMES, -3, 3), max_size=15))
+def test_overlapping_region_pieces_become_disjoint_cells(e, samples):
+    region = Region(Region.of(*atoms_of(a, ">=", -1), *atoms_of(a, "<=", 2), *atoms_of(b, ">=", 0),
+                              *atoms_of(b, "<=", 2)).pieces
+                    + Region.of(*atoms_of(a, ">=", 0), *atoms_of(a, "<=", 3), *atoms_of(b, ">", 1),
+                                *atoms_of(b, "<=", 3)).pieces)
+    rp = prove_by_regimes(relation(e, "<=", e + 1, region), smt="none", improve_witness=False)
+    assert rp.status == "proved"
+    _check_partition_and_affinity(rp, region, (e, e + 1), samples)
+
+
+def test_lower_dimensional_region_keeps_exact_verdicts():
+    # On the line alpha == beta, alpha in [0, 2]: max(alpha, beta) == alpha holds; alpha < beta nowhere.
+    line = Region.of(*atoms_of(a, "==", b), *atoms_of(a, ">=", 0), *atoms_of(a, "<=", 2))
+    rp = prove_by_regimes(relation(max_(a, b), "==", a, line), improve_witness=False)
+    assert rp.status == "proved" and rp.certified and all(r.dim == 1 for r in rp.regimes)
+    rp = prove_by_regimes(relation(min_(a, 2 * b - 1), "<", a, line), improve_witness=False)
+    assert rp.status == "refuted" and rp.agree  # fails exactly for alpha >= 1 on the line
+    # by the boundary convention the point alpha = 1 stays in the left cell: a 0-dimensional piece
+    assert sorted(p.dim for p in rp.failure.pieces) == [0, 1]
+    for k in range(9):
+        x = F(k, 4)
+        inside = any(p.polyhedron.contains({"alpha": x, "beta": x}) for p in rp.failure.pieces)
+        assert inside == (x >= 1)
+
+
+def test_monotone_by_slopes_and_fallbacks():
+    # W is increasing on [1/2, 2/3] and [1, 2], decreasing on [0, 1/2] (Etkin-Tse-Wang 2008, from memory).
+    inc = Region.of(*atoms_of(a, ">=", F(1, 2)), *atoms_of(a, "<=", F(2, 3)))
+    rp = prove_by_regimes(monotone(W, "alpha", inc))
+    assert rp.status == "proved" and rp.method == "regimes" and rp.certified
+    rp = prove_by_regimes(monotone(W, "alpha", ALPHA_NONNEG))
+    assert rp.status == "refuted" and rp.agree
+    cex = rp.counterexamples[0]
+    assert cex.point["alpha'"] > cex.point["alpha"] and cex.rhs_value < cex.lhs_value
+    # two increasing pieces with a drop in between: slopes alone cannot decide, SMT does
+    gap = Region(inc.pieces + Region.of(*atoms_of(a, ">=", 1), *atoms_of(a, "<=", 2)).pieces)
+    rp = prove_by_regimes(monotone(W, "alpha", gap))
+    assert rp.method == "smt" and rp.status == "refuted"
+
+
+def test_reduces_to_and_symmetric_use_the_compared_pair():
+    quad = Region.of(*atoms_of(a, ">=", 0), *atoms_of(b, ">=", 0))
+    rp = prove_by_regimes(symmetric(min_(a + b, max_(a, b)), "alpha", "beta", quad))
+    assert rp.status == "proved" and rp.certified and rp.agree
+    rp = prove_by_regimes(symmetric(min_(a + b / 2, max_(a, b)), "alpha", "beta", quad))
+    assert rp.status == "refuted" and rp.agree
+    rp = prove_by_regimes(reduces_to(min_(a + b, max_(a, 2 * b)), {"beta": 1}, max_(1, a), quad))
+    assert rp.status == "refuted" and rp.names == ("alpha",)
+    assert {c.point["alpha"] for c in rp.counterexamples} <= {x for x in map(F, range(0, 3))} | {F(1, 2)}
+
+
+def test_named_parts_are_reported_active_per_regime():
+    parts = (("one", affine({}, 1)), ("mid", max_(a / 2, 1 - a / 2)), ("weak", max_(a, 1 - a)))
+    rp = prove_by_regimes(relation(Side(W, "d", parts), "<=", 1, ALPHA_NONNEG), improve_witness=False)
+    # Etkin-Tse-Wang 2008 (from memory): the weak-interference bound is tight up to 2/3, the middle
+    # one from 2/3 to 2, the single-user bound beyond 2.
+    assert [r.active[0] for r in rp.regimes] == [("weak",), ("weak",), ("mid",), ("mid",), ("one",)]
+
+
+def test_parallel_workers_give_the_same_report_in_the_same_order():
+    claim = relation(HAND_LHS, ">=", HAND_RHS, HAND_REGION)
+    seen = []
+    one = prove_by_regimes(claim, improve_witness=False, smt="none")
+    two = prove_by_regimes(claim, improve_witness=False, smt="none", workers=2,
+                           progress=lambda stage, done, total: seen.append((stage, done, total)))
+    assert [(r.forms, r.point, r.status, r.polytopes) for r in one.regimes] == \
+        [(r.forms, r.point, r.status, r.polytopes) for r in two.regimes]
+    assert one.thresholds == two.thresholds
+    assert ("regimes", len(two.regimes), len(two.regimes)) in seen
+
+
+def test_empty_region_is_an_input_error():
+    with pytest.raises(RegionError):
+        prove_by_regimes(relation(a, "<=", 1, Region.of(*atoms_of(a, ">", 1), *atoms_of(a, "<", 0))))
