@@ -65,6 +65,15 @@ def test_relation_and_piecewise_in_latex():
     assert pw == parse_piecewise("1 - alpha if alpha <= 1/2; alpha if alpha > 1/2")
 
 
+def test_cases_environment():
+    cases = (r"\begin{cases} 1-\alpha, & \text{if } \alpha \le \frac12, \\ "
+             r"\alpha, & \frac12 < \alpha \le \frac23, \\ \frac23, & \text{otherwise}. \end{cases}")
+    assert parse_latex_piecewise(cases) == \
+        parse_piecewise("1 - alpha if alpha <= 1/2; alpha if 1/2 < alpha <= 2/3; 2/3 otherwise")
+    with pytest.raises(ParseError, match=r"^unsupported environment 'matrix' \(only cases\) at column 1$"):
+        parse_latex_piecewise(r"\begin{matrix} 1 \end{matrix}")
+
+
 def test_names_in_latex():
     assert parse_latex_expr(r"\alpha + \beta", names=["alpha", "beta"]) == parse_expr("alpha + beta")
     with pytest.raises(UnknownNameError, match=r"^unknown parameter 'delta' .*at column 10$"):

@@ -4,7 +4,7 @@ from fractions import Fraction
 
 import pytest
 import sympy
-from hypothesis import given, settings
+from hypothesis import given, settings, strategies as st
 
 from tests.strategies import exprs, points, regions
 from verifier.errors import InputError, NonlinearError, ParseError, RegionError, UnknownNameError
@@ -155,6 +155,25 @@ def test_piecewise_text_and_evaluate():
     assert pw.evaluate({"alpha": Fraction(3, 5)}) == Fraction(3, 5)
     assert pw.evaluate({"alpha": 1}) == Fraction(2, 3)
     assert pw.params() == {"alpha"}
+
+
+def test_otherwise_is_the_complement():
+    pw = parse_piecewise("1 - alpha if alpha <= 1/2; alpha if 1/2 < alpha <= 2/3; 2/3 otherwise")
+    assert pw.pieces[2][1] == parse_region("alpha > 2/3")  # empty combinations dropped exactly
+    assert parse_piecewise("0 if alpha < 0 or alpha > 1; alpha if otherwise").pieces[1][1] == \
+        parse_region("alpha >= 0, alpha <= 1")
+    assert parse_piecewise("0 if true; 1 otherwise").pieces[1][1] == Region(())
+    with pytest.raises(ParseError, match=r"^'otherwise' must be the last piece at column 12$"):
+        parse_piecewise("1 otherwise; 2 if alpha > 0")
+
+
+@settings(max_examples=60, deadline=None)
+@given(regions(NAMES, max_pieces=2), regions(NAMES, max_pieces=2), st.lists(points(NAMES), max_size=20))
+def test_otherwise_is_exact_at_random_points(r1, r2, pts):
+    pw = parse_piecewise(f"0 if {r1.text()}; 1 if {r2.text()}; 2 otherwise")
+    rest = pw.pieces[2][1]
+    for p in pts:
+        assert rest.contains(p) == (not r1.contains(p) and not r2.contains(p))
 
 
 def test_piecewise_from_pairs_and_gaps():

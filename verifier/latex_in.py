@@ -47,7 +47,8 @@ SIMPLE = {
 PROSE_MACROS = {"text", "textrm", "mbox", "textnormal"}           # only connectives: \text{ and }
 NAME_MACROS = {"mathrm", "operatorname", "mathit"}                 # names and function names
 TEXT_MACROS = PROSE_MACROS | NAME_MACROS
-TEXT_WORDS = {"and", "or", "if", "for", "everywhere", "true", "false", "nowhere"}
+TEXT_WORDS = {"and", "or", "if", "for", "otherwise", "everywhere", "true", "false", "nowhere"}
+ENVIRONMENTS = {"cases", "dcases"}
 FUNCTION_WORDS = {"min", "max"}
 _ONE = {"+": ("op", "+"), "-": ("op", "-"), "*": ("op", "*"), "/": ("op", "/"), "^": ("op", "^"),
         ",": ("op", ","), ";": ("op", ";"), "|": ("op", "|"), "(": ("open", "("), ")": ("close", ")"),
@@ -76,12 +77,23 @@ class LatexLexer:
         self.tokens: list[Token] = []
         self.braces = 0  # depth of grouping braces
         self.fracs: list[_FracArgs] = []
+        self.in_cases = False  # inside \begin{cases}: '&' means 'if' and '\\' ends a piece
 
     def fail(self, message: str, position: int, cls=ParseError):
         raise cls(message, self.source, position)
 
     def emit(self, kind: str, value, pos: int, end: int) -> None:
+        last = self.tokens[-1] if self.tokens else None
+        if kind == "kw" and value in ("if", "for") and last is not None and last.kind == "kw" and \
+                last.value == "if":
+            return  # `& \text{if }` in a cases row is one 'if'
         self.tokens.append(Token(kind, value, pos, end))
+
+    def row_mark(self, kind: str, value: str, pos: int, end: int) -> None:
+        """'&' (-> if) or '\\' (-> ;) in a cases environment; a comma just before it is punctuation."""
+        if self.tokens and self.tokens[-1].kind == "op" and self.tokens[-1].value == ",":
+            self.tokens.pop()
+        self.emit(kind, value, pos, end)
 
     def run(self) -> list[Token]:
         while self.skip_space() < len(self.text):
@@ -97,9 +109,9 @@ class LatexLexer:
     def skip_space(self) -> int:
         t = self.text
         while self.i < len(t):
-            if t[self.i].isspace() or t[self.i] in "~&":
+            if t[self.i].isspace() or t[self.i] == "~" or (t[self.i] == "&" and not self.in_cases):
                 self.i += 1
-            elif t.startswith("\\\\", self.i):
+            elif t.startswith("\\\\", self.i) and not self.in_cases:
                 self.i += 2
             else:
                 break
@@ -146,7 +158,10 @@ class LatexLexer:
     def token(self) -> None:
         t, start = self.text, self.i
         ch = t[start]
-        if ch == "\\":
+        if self.in_cases and (ch == "&" or t.startswith("\\\\", start)):
+            self.i += 1 if ch == "&" else 2
+            self.row_mark(*(("kw", "if") if ch == "&" else ("op", ";")), start, self.i)
+        elif ch == "\\":
             self.macro()
         elif ch in "0123456789" or (ch == "." and t[start + 1:start + 2].isdigit()):
             tok, self.i = read_number(self.source, start)
@@ -209,6 +224,14 @@ class LatexLexer:
                 self.fracs.append(_FracArgs(self.braces))
         elif word in TEXT_MACROS:
             self.text_macro(word, start)
+        elif word in ("begin", "end"):
+            env = self.braced_word(word, start)
+            if env not in ENVIRONMENTS:
+                self.fail(f"unsupported environment '{env}' (only cases)", start)
+            if word == "end" and self.tokens and self.tokens[-1].kind in ("op", "bad") and \
+                    self.tokens[-1].value in (",", "."):  # sentence punctuation before \end{cases}
+                self.tokens.pop()
+            self.in_cases = word == "begin"
         else:
             self.fail(f"unknown macro '\\{word}'", start, UnknownNameError)
 
@@ -326,5 +349,6 @@ def parse_latex_relation(text: str, names: Iterable[str] | None = None):
 
 
 def parse_latex_piecewise(text: str, names: Iterable[str] | None = None) -> Piecewise:
-    """`1-\\alpha \\text{ if } \\alpha \\le \\frac12; \\alpha \\text{ if } \\alpha > \\frac12`."""
+    """`1-\\alpha \\text{ if } \\alpha \\le \\frac12; \\alpha \\text{ otherwise}`, or a cases environment:
+    `\\begin{cases} 1-\\alpha, & \\alpha \\le \\frac12 \\\\ \\alpha, & \\text{otherwise} \\end{cases}`."""
     return _run(text, names, "piecewise")

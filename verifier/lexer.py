@@ -12,7 +12,7 @@ Token kinds:
     open   value: ( [ {        close  value: ) ] }
     gopen  gclose              LaTeX grouping braces { } (not set braces)
     rel    value: < <= == >= > !=
-    kw     value: and or if for true everywhere false nowhere
+    kw     value: and or if for otherwise true everywhere false nowhere
     bad    value: a character outside the grammar (the parser reports it when it gets there)
     func   value: min max abs pos   (LaTeX \\min, \\max; in text a function is a name before a bracket)
     frac   LaTeX \\frac, \\tfrac, \\dfrac
@@ -29,7 +29,7 @@ from .errors import ParseError
 MAX_INPUT_CHARS = 20000
 MAX_LITERAL_DIGITS = 60
 
-KEYWORDS = frozenset({"and", "or", "if", "for", "true", "everywhere", "false", "nowhere"})
+KEYWORDS = frozenset({"and", "or", "if", "for", "otherwise", "true", "everywhere", "false", "nowhere"})
 
 GREEK = {
     "α": "alpha", "β": "beta", "γ": "gamma", "δ": "delta", "ε": "epsilon", "ϵ": "epsilon",

@@ -19,10 +19,11 @@ from .errors import InputError, NonlinearError, ParseError, RegionError, Unknown
 from .expr import (Affine, Expr, abs_, add, children, const, constant_value, evaluate, is_constant,
                    max_, min_, param, params, pos, scale, to_text)
 from .lexer import Token, normalize_name, tokenize
-from .region import Region, atoms_of
+from .region import Atom, Polyhedron, Region, atoms_of
 
 MAX_DEPTH = 100       # bracket nesting; papers never come near it, and it keeps recursion bounded
 MAX_BITS = 665        # about 200 decimal digits for any computed numerator or denominator
+MAX_OTHERWISE_PIECES = 256
 MAX_NODES = 20000     # |x| = max(x, -x) doubles the tree, so nested bars could blow up exponentially
 FUNCTIONS = {"min": "min", "max": "max", "Min": "min", "Max": "max", "pos": "pos", "abs": "abs",
              "Abs": "abs"}
@@ -54,6 +55,36 @@ def _tree_size(e: Expr, memo: dict) -> int:
         hit = (e, 1 + sum(_tree_size(c, memo) for c in children(e)))
         memo[id(e)] = hit  # keeps `e` alive, so its id cannot be reused during this parse
     return hit[1]
+
+
+def _direction(atom: Atom) -> tuple[tuple, Fraction, bool]:
+    """(coefficients scaled so the first has magnitude 1, scaled constant, strict)."""
+    scale_by = abs(atom.form.coeffs[0][1])
+    coeffs = tuple((n, c / scale_by) for n, c in atom.form.coeffs)
+    return coeffs, atom.form.const / scale_by, atom.strict
+
+
+def _tidy(poly: Polyhedron) -> Polyhedron | None:
+    """Drop a polyhedron that a false constant atom or an opposite pair of atoms makes empty, and keep
+    only the tightest of parallel atoms.  Exact and cheap (no LP, so some empty ones remain)."""
+    best: dict[tuple, tuple[Fraction, bool, Atom]] = {}
+    for atom in poly.atoms:
+        if not atom.form.coeffs:
+            if not atom.holds({}):
+                return None
+            continue
+        coeffs, k, strict = _direction(atom)  # the atom says L + k > 0 (or >= 0)
+        old = best.get(coeffs)
+        if old is None or k < old[0] or (k == old[0] and strict):
+            best[coeffs] = (k, strict, atom)
+    for coeffs, (k, strict, _) in best.items():
+        opposite = tuple((n, -c) for n, c in coeffs)
+        if opposite in best:  # L >= -k and -L >= -k2, i.e. -k <= L <= k2
+            k2, strict2, _ = best[opposite]
+            if -k > k2 or (-k == k2 and (strict or strict2)):
+                return None
+    kept = {entry[2] for entry in best.values()}
+    return Polyhedron(tuple(a for a in poly.atoms if a in kept))
 
 
 class Parser:
@@ -418,19 +449,39 @@ class Parser:
         return result
 
     def pieces(self) -> "Piecewise":
-        out = []
+        """`expr if region; ...`, the last piece possibly `expr otherwise` (or `expr if otherwise`)."""
+        out: list[tuple[Expr, Region]] = []
         while True:
             expr = self.sum().expr
-            if not self.at("kw", "if", "for"):
+            if self.at("kw", "if", "for"):
+                self.advance()
+            elif not self.at("kw", "otherwise"):
                 self.unexpected(self.peek(), "'if' and a region")
-            self.advance()
-            out.append((expr, self.disjunction()))
+            if self.at("kw", "otherwise"):
+                tok = self.advance()
+                out.append((expr, self.complement([r for _, r in out], tok)))
+                if self.at("op", ";") and self.peek(1).kind != "end":
+                    self.fail("'otherwise' must be the last piece", self.peek().pos)
+            else:
+                out.append((expr, self.disjunction()))
             if not self.at("op", ";"):
                 break
             self.advance()
             if self.at("end"):
                 break
         return Piecewise(tuple(out))
+
+    def complement(self, regions: list[Region], tok: Token) -> Region:
+        """Where none of `regions` holds, in disjunctive normal form (atoms negated exactly)."""
+        out = Region.everywhere()
+        for region in regions:
+            for poly in region.pieces:
+                out = out.meet(Region(tuple(Region.of(a.negated()).pieces[0] for a in poly.atoms)))
+                out = Region(tuple(p for p in map(_tidy, out.pieces) if p is not None))
+                if len(out.pieces) > MAX_OTHERWISE_PIECES:
+                    self.fail(f"'otherwise' would need more than {MAX_OTHERWISE_PIECES} polyhedra; "
+                              "state its region", tok.pos)
+        return out
 
 
 # ---------------------------------------------------------------------------------------------
@@ -493,8 +544,9 @@ def parse_relation(text: str, names: Iterable[str] | None = None) -> tuple[Expr,
 
 def parse_piecewise(spec: str | Sequence[tuple[object, object]],
                     names: Iterable[str] | None = None) -> Piecewise:
-    """`1 - alpha if alpha <= 1/2; alpha if 1/2 < alpha <= 2/3`, or a list of (expr, region) pairs
-    whose items are texts or already-built Expr / Region objects."""
+    """`1 - alpha if alpha <= 1/2; alpha if 1/2 < alpha <= 2/3; 2/3 otherwise`, or a list of
+    (expr, region) pairs whose items are texts or already-built Expr / Region objects.  `otherwise`
+    (last piece only) stands for the exact complement of the earlier regions."""
     if isinstance(spec, str):
         return _run(spec, names, "piecewise")
     pieces = []
