@@ -65,7 +65,7 @@ class Token:
             return f"number '{self.value}'"
         if self.kind == "bad":
             return f"character {self.value!r}"
-        return f"'{self.value}'" if self.kind not in ("gopen", "gclose", "frac") else f"'{self.kind}'"
+        return f"'\\{self.value}'" if self.kind == "frac" else f"'{self.value}'"
 
 
 def normalize_name(name: str) -> str:

@@ -23,7 +23,7 @@ from .region import Atom, Polyhedron, Region, atoms_of
 
 MAX_DEPTH = 100       # bracket nesting; papers never come near it, and it keeps recursion bounded
 MAX_BITS = 665        # about 200 decimal digits for any computed numerator or denominator
-MAX_OTHERWISE_PIECES = 256
+MAX_OTHERWISE_PIECES = 256  # the complement behind 'otherwise' is a product of negated atoms
 MAX_NODES = 20000     # |x| = max(x, -x) doubles the tree, so nested bars could blow up exponentially
 FUNCTIONS = {"min": "min", "max": "max", "Min": "min", "Max": "max", "pos": "pos", "abs": "abs",
              "Abs": "abs"}
@@ -88,7 +88,11 @@ def _tidy(poly: Polyhedron) -> Polyhedron | None:
 
 
 class Parser:
-    """Recursive descent over a token list; `latex` only changes how a few messages read."""
+    """Recursive descent over a token list from either tokenizer (verifier.lexer or verifier.latex_in).
+
+    Precedence, loosest first: `or` > `,`/`and` > relation chain > `+ -` > `* /` and juxtaposition >
+    unary sign > `^` > primary (number, name, call, bracket, |...|, \\frac).
+    """
 
     def __init__(self, tokens: list[Token], source: str, names: Iterable[str] | None = None):
         self.tokens = tokens

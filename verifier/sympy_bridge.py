@@ -26,7 +26,7 @@ import sympy
 
 from .errors import InputError, NonlinearError
 from .expr import (Affine, Expr, Max, Min, Sum, abs_, add, affine, as_fraction, const, constant_value,
-                   is_constant, max_, min_, param, scale, to_text)
+                   is_constant, max_, min_, param, scale)
 from .lexer import normalize_name
 
 _IDENT_START = set("ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz_")
