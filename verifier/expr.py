@@ -21,6 +21,7 @@ directly):
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass
 from fractions import Fraction
 from functools import cached_property
@@ -29,6 +30,7 @@ from typing import Iterable, Mapping, Union
 from .errors import InputError, NonlinearError, UnknownNameError
 
 Number = Union[int, Fraction]
+_PLAIN_NUMBER = re.compile(r"[-+]?(\d+(\.\d*)?|\.\d+)(\s*/\s*\d+)?")
 
 
 def as_fraction(value) -> Fraction:
@@ -48,8 +50,12 @@ def as_fraction(value) -> Fraction:
             raise InputError(f"not a finite number: {value!r}")
         return Fraction(repr(value))
     if isinstance(value, str):
+        text = value.strip()
+        # plain decimals and fractions only: '1e100000000' would build a gigantic integer
+        if len(text) > 200 or not _PLAIN_NUMBER.fullmatch(text):
+            raise InputError(f"not an exact number: {value[:40]!r}")
         try:
-            return Fraction(value.strip())
+            return Fraction(text)
         except (ValueError, ZeroDivisionError):
             raise InputError(f"not an exact number: {value!r}") from None
     if hasattr(value, "p") and hasattr(value, "q") and getattr(value, "is_Rational", False):

@@ -30,6 +30,7 @@ from pathlib import Path
 from verifier import claims as C
 from verifier.errors import CaseFileError, InputError
 from verifier.expr import Expr, max_, min_, param, params, substitute
+from verifier.latex_in import parse_latex_expr, parse_latex_region
 from verifier.parse import parse_piecewise
 from verifier.parse import parse_expr, parse_region
 from verifier.piecewise import Piece, PiecewiseCheck, check_piecewise
@@ -123,6 +124,8 @@ class _Reader:
         if not isinstance(value, str):
             raise self.fail(key, f"expected an expression in quotes, found {type(value).__name__}")
         try:
+            if "\\" in value:  # pasted from a manuscript: the LaTeX subset
+                return parse_latex_expr(value, names)
             return parse_expr(value, names)
         except InputError as err:
             raise self.fail(key, err, value) from None
@@ -131,6 +134,8 @@ class _Reader:
         if not isinstance(value, str):
             raise self.fail(key, f"expected a region in quotes, found {type(value).__name__}")
         try:
+            if "\\" in value:
+                return parse_latex_region(value, names)
             return parse_region(value, names)
         except InputError as err:
             raise self.fail(key, err, value) from None
