@@ -431,38 +431,53 @@ def format_number(q: Fraction) -> str:
     return str(q.numerator) if q.denominator == 1 else f"{q.numerator}/{q.denominator}"
 
 
-def _affine_text(a: Affine) -> str:
-    parts: list[str] = []
-    for name, c in a.coeffs:
-        mag = abs(c)
-        if mag == 1:
-            body = name
-        elif mag.denominator == 1:
-            body = f"{mag.numerator}*{name}"
-        elif mag.numerator == 1:
-            body = f"{name}/{mag.denominator}"
-        else:
-            body = f"{mag.numerator}*{name}/{mag.denominator}"
-        parts.append(("- " if c < 0 else "+ ") + body)
+def join_affine(a: Affine, term, number) -> str:
+    """Signs and order of an affine form, shared by every printer: `1 - alpha/2`, `alpha - 2`.
+
+    `term(name, magnitude)` and `number(magnitude)` render the unsigned pieces in the target notation.
+    """
+    parts = [("- " if c < 0 else "+ ") + term(name, abs(c)) for name, c in a.coeffs]
     if a.const > 0:
-        parts.insert(0, "+ " + format_number(a.const))  # reads as the trade writes it: 1 - alpha
+        parts.insert(0, "+ " + number(a.const))  # reads as the trade writes it: 1 - alpha
     elif a.const < 0 or not parts:
-        parts.append(("- " if a.const < 0 else "+ ") + format_number(abs(a.const)))
+        parts.append(("- " if a.const < 0 else "+ ") + number(abs(a.const)))
     text = " ".join(parts)
     return ("-" + text[2:]) if text.startswith("- ") else text[2:]
 
 
+def _text_term(name: str, mag: Fraction) -> str:
+    if mag == 1:
+        return name
+    if mag.denominator == 1:
+        return f"{mag.numerator}*{name}"
+    if mag.numerator == 1:
+        return f"{name}/{mag.denominator}"
+    return f"{mag.numerator}*{name}/{mag.denominator}"
+
+
+def _affine_text(a: Affine) -> str:
+    return join_affine(a, _text_term, format_number)
+
+
+def render(e: Expr, affine_text, positive_part, extremum) -> str:
+    """One traversal for every notation: (x)^+ for max(x, 0), min/max lists, sums of terms."""
+    def walk(node: Expr) -> str:
+        if isinstance(node, Affine):
+            return affine_text(node)
+        if isinstance(node, Sum):
+            pieces = [walk(t) for t in node.terms]
+            if node.affine != ZERO_AFFINE:
+                pieces.insert(0, affine_text(node.affine))
+            return " + ".join(pieces)
+        if isinstance(node, Max) and len(node.args) == 2 and const(0) in node.args:
+            return positive_part(walk(node.args[0] if node.args[1] == const(0) else node.args[1]))
+        if isinstance(node, (Min, Max)):
+            return extremum("min" if isinstance(node, Min) else "max", [walk(a) for a in node.args])
+        raise TypeError(f"unknown expression node {type(node).__name__}")
+    return walk(e)
+
+
 def to_text(e: Expr) -> str:
     """Plain-text form in the tool's input syntax: `min(1, alpha/2 + (1 - alpha)^+)`."""
-    if isinstance(e, Affine):
-        return _affine_text(e)
-    if isinstance(e, Sum):
-        pieces = [to_text(t) for t in e.terms]
-        if e.affine != ZERO_AFFINE:
-            pieces.insert(0, _affine_text(e.affine))
-        return " + ".join(pieces)
-    if isinstance(e, Max) and len(e.args) == 2 and const(0) in e.args:
-        inner = e.args[0] if e.args[1] == const(0) else e.args[1]
-        return f"({to_text(inner)})^+"
-    name = "min" if isinstance(e, Min) else "max"
-    return f"{name}(" + ", ".join(to_text(a) for a in e.args) + ")"
+    return render(e, _affine_text, lambda inner: f"({inner})^+",
+                  lambda kind, args: f"{kind}(" + ", ".join(args) + ")")

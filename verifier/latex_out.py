@@ -10,7 +10,7 @@ from __future__ import annotations
 
 from fractions import Fraction
 
-from .expr import Affine, Expr, Max, Min, Sum, ZERO_AFFINE, affine, const
+from .expr import Affine, Expr, affine, join_affine, render
 from .region import Atom, Polyhedron, Region
 
 GREEK_NAMES = frozenset(
@@ -62,33 +62,13 @@ def _term(name: str, mag: Fraction) -> str:
 
 
 def affine_to_latex(a: Affine) -> str:
-    parts: list[str] = []
-    for name, c in a.coeffs:
-        parts.append(("- " if c < 0 else "+ ") + _term(name, abs(c)))
-    if a.const > 0:
-        parts.insert(0, "+ " + number_to_latex(a.const))
-    elif a.const < 0 or not parts:
-        parts.append(("- " if a.const < 0 else "+ ") + number_to_latex(abs(a.const)))
-    text = " ".join(parts)
-    return ("-" + text[2:]) if text.startswith("- ") else text[2:]
+    return join_affine(a, _term, number_to_latex)
 
 
 def expr_to_latex(e: Expr) -> str:
     """`\\min\\{2\\alpha, \\frac{\\gamma}{2} + (1 - \\alpha)^+\\}`."""
-    if isinstance(e, Affine):
-        return affine_to_latex(e)
-    if isinstance(e, Sum):
-        pieces = [expr_to_latex(t) for t in e.terms]
-        if e.affine != ZERO_AFFINE:
-            pieces.insert(0, affine_to_latex(e.affine))
-        return " + ".join(pieces)
-    if isinstance(e, Max) and len(e.args) == 2 and const(0) in e.args:
-        inner = e.args[0] if e.args[1] == const(0) else e.args[1]
-        return f"({expr_to_latex(inner)})^+"
-    if isinstance(e, (Min, Max)):
-        macro = "\\min" if isinstance(e, Min) else "\\max"
-        return f"{macro}\\{{" + ", ".join(expr_to_latex(a) for a in e.args) + "\\}"
-    raise TypeError(f"unknown expression node {type(e).__name__}")
+    return render(e, affine_to_latex, lambda inner: f"({inner})^+",
+                  lambda kind, args: f"\\{kind}\\{{" + ", ".join(args) + "\\}")
 
 
 def atom_to_latex(atom: Atom) -> str:
