@@ -112,18 +112,7 @@ class Polyhedron:
                                 for a in self.atoms))
 
     def text(self) -> str:
-        if not self.atoms:
-            return "everywhere"
-        forms = {a.form for a in self.atoms if not a.strict}
-        out, done = [], set()
-        for a in self.atoms:
-            if not a.strict and _neg(a.form) in forms:
-                if _neg(a.form) not in done:
-                    out.append(atom_text(a.form, "=="))
-                    done.add(a.form)
-                continue
-            out.append(a.text())
-        return ", ".join(out)
+        return constraint_text(self.atoms)
 
 
 def _dedupe(atoms: Iterable[Atom]) -> tuple[Atom, ...]:
@@ -196,3 +185,81 @@ class Region:
 
     def __str__(self) -> str:
         return self.text()
+
+
+# ---------------------------------------------------------------------------------------------
+# constraints as papers write them: 1/2 <= alpha < 2/3, alpha == 1, gamma > alpha
+# ---------------------------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class Notation:
+    """How to print names, numbers and relations; TEXT here, LaTeX in latex_out."""
+
+    name: object = str
+    number: object = format_number
+    rel: object = None          # rel(symbol) -> str, symbol one of < <= == >= >
+    atom: object = None         # atom(Atom) -> str for constraints in several parameters
+    joiner: str = ", "
+    everywhere: str = "everywhere"
+
+
+TEXT = Notation(rel=lambda r: r, atom=lambda a: a.text())
+
+
+def _single(atom: Atom):
+    """(name, bound, is_lower) for an atom `name REL number` with coefficient +-1, else None."""
+    if len(atom.form.coeffs) != 1 or abs(atom.form.coeffs[0][1]) != 1:
+        return None
+    name, c = atom.form.coeffs[0]
+    return name, -atom.form.const / c, c > 0
+
+
+def chain_items(atoms) -> list[tuple]:
+    """('eq', name, v) / ('chain', name, lo, lo_strict, hi, hi_strict) / ('atom', atom), in order.
+
+    Only a lower bound directly followed by an upper bound on the same parameter becomes one chain
+    (that is what `1/2 <= alpha < 2/3` and `alpha == 1` parse to), so the printed text parses back to
+    the very same atoms in the same order, and nothing is ever hidden or merged.
+    """
+    atoms, items, i = list(atoms), [], 0
+    while i < len(atoms):
+        got = _single(atoms[i])
+        nxt = _single(atoms[i + 1]) if i + 1 < len(atoms) else None
+        if got and got[2] and nxt and not nxt[2] and nxt[0] == got[0]:
+            lo, hi = atoms[i], atoms[i + 1]
+            if got[1] == nxt[1] and not lo.strict and not hi.strict:
+                items.append(("eq", got[0], got[1]))
+            else:
+                items.append(("chain", got[0], got[1], lo.strict, nxt[1], hi.strict))
+            i += 2
+            continue
+        if got:
+            items.append(("chain", got[0], got[1] if got[2] else None, atoms[i].strict,
+                          None if got[2] else got[1], atoms[i].strict))
+        else:
+            items.append(("atom", atoms[i]))
+        i += 1
+    return items
+
+
+def constraint_text(atoms, notation: Notation = TEXT) -> str:
+    """'1/2 <= alpha < 2/3, gamma > alpha' in the given notation; `everywhere` with no atom."""
+    nt, out = notation, []
+    for item in chain_items(atoms):
+        if item[0] == "atom":
+            out.append(nt.atom(item[1]))
+        elif item[0] == "eq":
+            out.append(f"{nt.name(item[1])} {nt.rel('==')} {nt.number(item[2])}")
+        else:
+            _, n, lo, lo_strict, hi, hi_strict = item
+            text = nt.name(n)
+            if hi is None:  # a lone lower bound reads better as alpha >= 0
+                out.append(f"{text} {nt.rel('>' if lo_strict else '>=')} {nt.number(lo)}")
+                continue
+            if lo is None:
+                out.append(f"{text} {nt.rel('<' if hi_strict else '<=')} {nt.number(hi)}")
+                continue
+            if lo is not None:
+                text = f"{nt.number(lo)} {nt.rel('<' if lo_strict else '<=')} {text}"
+            out.append(f"{text} {nt.rel('<' if hi_strict else '<=')} {nt.number(hi)}")
+    return nt.joiner.join(out) or nt.everywhere

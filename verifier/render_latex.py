@@ -13,8 +13,8 @@ import re
 from fractions import Fraction
 
 from .expr import Affine, affine
-from .region import Atom
-from .report import ClaimReport, Report, chains, num
+from .region import Atom, Notation, constraint_text
+from .report import ClaimReport, Report, num
 
 GREEK = {"alpha", "beta", "gamma", "delta", "epsilon", "varepsilon", "zeta", "eta", "theta", "iota",
          "kappa", "lambda", "mu", "nu", "xi", "pi", "rho", "sigma", "tau", "upsilon", "phi", "varphi",
@@ -96,35 +96,14 @@ def _sides_latex(f: Affine, rels) -> str:
     return f"{affine_latex(left)} {rels[0]} {affine_latex(right)}"
 
 
-def _bound(atom: Atom) -> Fraction:
-    return -atom.form.const / atom.form.coeffs[0][1]
-
-
-GE = r"\ge"
-
-
-def _rel(atom: Atom) -> str:
-    return "<" if atom.strict else r"\le"
+LATEX_RELS = {"<": "<", "<=": r"\le", "==": "=", ">=": r"\ge", ">": ">"}
 
 
 def condition_latex(atoms) -> str:
     """Constraints with one-parameter bounds chained: 1/2 <= alpha < 2/3 in LaTeX."""
-    out = []
-    for item in chains(atoms):
-        if item[0] == "atom":
-            out.append(atom_latex(item[1]))
-            continue
-        _, name, lo, hi = item
-        text = name_latex(name)
-        if hi is None:  # a lone lower bound reads better as alpha >= 0
-            out.append(f"{text} {'>' if lo.strict else GE} {number_latex(_bound(lo))}")
-            continue
-        if lo is not None:
-            text = f"{number_latex(_bound(lo))} {_rel(lo)} {text}"
-        if hi is not None:
-            text = f"{text} {_rel(hi)} {number_latex(_bound(hi))}"
-        out.append(text)
-    return ",\\ ".join(out) or r"\text{everywhere}"
+    notation = Notation(name=name_latex, number=number_latex, rel=LATEX_RELS.get, atom=atom_latex,
+                        joiner=",\\ ", everywhere=r"\text{everywhere}")
+    return constraint_text(atoms, notation)
 
 
 def regime_condition(row) -> str:

@@ -22,6 +22,7 @@ from .expr import Affine, format_number
 from .failure import FailureRegion
 from .regime_geometry import Polytope
 from .regime_proof import RegimeProof
+from .region import constraint_text as region_constraint_text
 from .region import Atom
 from .thresholds import Threshold
 from .witness import Counterexample
@@ -163,51 +164,9 @@ def build_report(proofs, title: str = "", source: str = "", solver: str = "z3",
     return Report(title, source, tuple(sections), solver, dict(versions), caution)
 
 
-# ---------------------------------------------------------------------------------------------
-# constraints as papers write them: 1/2 <= alpha < 2/3 rather than two separate atoms
-# ---------------------------------------------------------------------------------------------
-
-def _single(atom: Atom):
-    """(name, bound, is_lower) for an atom in one parameter, else None."""
-    if len(atom.form.coeffs) != 1:
-        return None
-    name, c = atom.form.coeffs[0]
-    return name, -atom.form.const / c, c > 0
-
-
-def chains(atoms: Sequence[Atom]) -> list[tuple]:
-    """Display items: ('chain', name, lower atom or None, upper atom or None) for one-parameter
-    atoms (one item per parameter, in order of first mention), then ('atom', atom) for the rest."""
-    singles: dict[str, list] = {}
-    others = []
-    for a in atoms:
-        got = _single(a)
-        if got is None:
-            others.append(("atom", a))
-            continue
-        slot = singles.setdefault(got[0], [None, None])
-        slot[0 if got[2] else 1] = a
-    return [("chain", n, lo, hi) for n, (lo, hi) in singles.items()] + others
-
-
 def constraint_text(atoms: Sequence[Atom]) -> str:
     """'1/2 <= alpha < 2/3, gamma > alpha' (exact numbers); 'everywhere' when there is no atom."""
-    out = []
-    for item in chains(atoms):
-        if item[0] == "atom":
-            out.append(item[1].text())
-            continue
-        _, name, lo, hi = item
-        text = name
-        if hi is None:  # a lone lower bound reads better as alpha >= 0
-            out.append(f"{name} {'>' if lo.strict else '>='} {num(_single(lo)[1])}")
-            continue
-        if lo is not None:
-            text = f"{num(_single(lo)[1])} {'<' if lo.strict else '<='} {text}"
-        if hi is not None:
-            text = f"{text} {'<' if hi.strict else '<='} {num(_single(hi)[1])}"
-        out.append(text)
-    return ", ".join(out) or "everywhere"
+    return region_constraint_text(atoms)
 
 
 # ---------------------------------------------------------------------------------------------
