@@ -14,7 +14,8 @@ from scipy.optimize import linprog
 from scipy.spatial import ConvexHull
 
 from verifier.expr import affine, param
-from verifier.lp import check_farkas, farkas, feasible, minimize
+from verifier.lp import feasible, minimize
+from verifier.lp_farkas import check_farkas, farkas
 from verifier.lp_shape import difference, irredundant, nice_point, shape, simplest_between
 from verifier.lp_vertices import generators, volume
 from verifier.region import Atom, Polyhedron, atoms_of

@@ -23,8 +23,9 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import Sequence
 
-from .expr import Affine, Expr, Max, Min, Sum, evaluate
-from .lp import ONE, Farkas, combine, farkas
+from .expr import Affine, Expr, Max, Min, Sum, children, evaluate
+from .lp import ONE, combine
+from .lp_farkas import Farkas, farkas, farkas_by_cone
 from .region import Atom
 
 
@@ -65,25 +66,53 @@ class NeedSplit(Exception):
         self.form = form
 
 
-class CellProver:
-    """Builds Piece proofs on one cell (atoms, an interior point), sharing a memo with ancestors."""
+def number_nodes(exprs: Sequence[Expr]) -> dict[int, int]:
+    """id(node) -> a number shared by structurally equal nodes, the same in every process that
+    numbers the same expressions (memo keys must survive pickling; ids and big hashes do not)."""
+    by_key: dict = {}
+    ids: dict[int, int] = {}
+    stack = list(reversed(exprs))
+    while stack:
+        e = stack.pop()
+        if id(e) in ids:
+            continue
+        ids[id(e)] = by_key.setdefault(e.key, len(by_key))
+        stack.extend(reversed(children(e)))
+    return ids
 
-    def __init__(self, atoms: Sequence[Atom], names: Sequence[str], point: dict, memo: dict | None = None):
+
+class CellProver:
+    """Builds Piece proofs on one cell, sharing a memo with ancestors.
+
+    With `cone` (the cell's generators, lp_vertices.Cone) each "d >= 0 on the cell" is a sign check
+    per generator and bounds carry no certificate yet (cert=None): that is how cells are split.
+    Without it each is an LP whose dual is the Farkas certificate: that is how final cells are
+    certified (see with_certificates for re-using a known proof structure)."""
+
+    def __init__(self, atoms: Sequence[Atom], names: Sequence[str], point: dict, memo: dict | None = None,
+                 numbers: dict | None = None, cone=None):
         self.atoms = list(atoms)
         self.names = tuple(names)
         self.point = point
         self.memo = memo if memo is not None else {}
+        self.numbers = numbers if numbers is not None else {}
+        self.cone = cone
         self.values: dict = {}
-        self.failed: dict = {}  # LPs that failed on this cell (not inherited: children differ)
+        self.failed: dict = {}  # checks that failed on this cell (not inherited: children differ)
+
+    def num(self, e: Expr):
+        n = self.numbers.get(id(e))
+        return n if n is not None else e.key
 
     def value(self, e: Expr) -> Fraction:
-        if e.key not in self.values:
-            self.values[e.key] = evaluate(e, self.point)
-        return self.values[e.key]
+        k = self.num(e)
+        if k not in self.values:
+            self.values[k] = evaluate(e, self.point)
+        return self.values[k]
 
     # --- pieces -------------------------------------------------------------------------
     def piece(self, e: Expr) -> tuple[Affine, Piece]:
-        key = ("p", e.key)
+        key = ("p", self.num(e))
         if key not in self.memo:
             self.memo[key] = self._piece(e)
         return self.memo[key]
@@ -112,7 +141,7 @@ class CellProver:
 
     # --- bounds -------------------------------------------------------------------------
     def bound(self, e: Expr, g: Affine, ge: bool) -> Bound:
-        key = ("b", e.key, g, ge)
+        key = ("b", self.num(e), g, ge)
         if key not in self.memo:
             self.memo[key] = self._bound(e, g, ge)
         return self.memo[key]
@@ -135,17 +164,21 @@ class CellProver:
             raise first_failure
         f, piece = self.piece(e)
         diff = combine(f, g, -ONE) if ge else combine(g, f, -ONE)
-        cert = self._nonneg(diff)
-        return Bound("farkas", piece=piece, cert=cert)
+        return Bound("farkas", piece=piece, cert=self._nonneg(diff))
 
-    def _nonneg(self, diff: Affine) -> Farkas:
+    def _nonneg(self, diff: Affine) -> Farkas | None:
         if not diff.coeffs:
             if diff.const >= 0:
                 return Farkas(diff.const, ())
             raise AssertionError("a constant difference is negative at an interior point")
         if diff in self.failed:
             raise self.failed[diff]
-        cert = farkas(diff, self.atoms, self.names, strict=False)
+        if self.cone is not None:
+            if self.cone.nonneg(diff):
+                return None
+            cert = None
+        else:
+            cert = farkas(diff, self.atoms, self.names, strict=False)
         if cert is None:
             self.failed[diff] = NeedSplit(diff)
             raise self.failed[diff]
@@ -153,8 +186,58 @@ class CellProver:
 
 
 def affine_pieces(exprs: Sequence[Expr], atoms: Sequence[Atom], names: Sequence[str], point: dict,
-                  memo: dict | None = None) -> tuple[tuple[Affine, ...], tuple[Piece, ...]]:
+                  memo: dict | None = None, numbers: dict | None = None, cone=None):
     """Affine forms and proofs of all `exprs` on the cell, or NeedSplit."""
-    prover = CellProver(atoms, names, point, memo)
+    prover = CellProver(atoms, names, point, memo, numbers, cone)
     got = [prover.piece(e) for e in exprs]
     return tuple(f for f, _ in got), tuple(p for _, p in got)
+
+
+def with_certificates(e: Expr, piece: Piece, atoms: Sequence[Atom], names: Sequence[str], cone=None):
+    """(form, the same proof with every Farkas certificate filled in) or None if one fails.
+
+    With the cell's `cone` (built from exactly `atoms`) certificates come from its generators
+    (lp_farkas.farkas_by_cone), else from a full LP."""
+    if piece.kind == "affine":
+        return e, piece
+    if piece.kind == "sum":
+        total, subs = e.affine, []
+        for t, sub in zip(e.terms, piece.subs):
+            got = with_certificates(t, sub, atoms, names, cone)
+            if got is None:
+                return None
+            total = combine(total, got[0])
+            subs.append(got[1])
+        return total, Piece("sum", tuple(subs))
+    got = with_certificates(e.args[piece.index], piece.subs[0], atoms, names, cone)
+    if got is None:
+        return None
+    g, sub = got
+    others = [a for i, a in enumerate(e.args) if i != piece.index]
+    bounds = [_bound_certified(a, g, isinstance(e, Min), b, atoms, names, cone)
+              for a, b in zip(others, piece.bounds)]
+    if any(b is None for b in bounds):
+        return None
+    return g, Piece("extremum", (sub,), piece.index, tuple(bounds))
+
+
+def _bound_certified(e, g, ge, b: Bound, atoms, names, cone):
+    if b.kind == "one":
+        sub = _bound_certified(e.args[b.index], g, ge, b.subs[0], atoms, names, cone)
+        return None if sub is None else Bound("one", (sub,), b.index)
+    if b.kind == "all":
+        subs = [_bound_certified(a, g, ge, s, atoms, names, cone) for a, s in zip(e.args, b.subs)]
+        return None if any(s is None for s in subs) else Bound("all", tuple(subs))
+    got = with_certificates(e, b.piece, atoms, names, cone)
+    if got is None:
+        return None
+    f, piece = got
+    diff = combine(f, g, -ONE) if ge else combine(g, f, -ONE)
+    reuse = b.cert is not None and not b.cert.mult  # a constant certificate holds on any cell
+    if reuse:
+        cert = b.cert
+    elif cone is not None:
+        cert = farkas_by_cone(diff, atoms, cone)
+    else:
+        cert = farkas(diff, atoms, names, strict=False)
+    return None if cert is None else Bound("farkas", piece=piece, cert=cert)

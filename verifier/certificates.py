@@ -21,7 +21,7 @@ from typing import Sequence
 
 from .cell_proof import Bound, Piece
 from .expr import Affine, Expr, Max, Min, Sum
-from .lp import Farkas, farkas
+from .lp_farkas import Farkas, farkas
 from .region import Atom
 from .regime_spec import Spec, obligations
 
@@ -65,19 +65,23 @@ def _lin(e: Affine):
 def _plus(f, g, k=Fraction(1)):
     out = dict(f[0])
     for n, c in g[0].items():
-        out[n] = out.get(n, Fraction(0)) + k * c
+        out[n] = out.get(n, 0) + k * c
     return {n: c for n, c in out.items() if c != 0}, f[1] + k * g[1]
 
 
 def _farkas_ok(target, atoms, cert, strict: bool) -> bool:
     if not isinstance(cert, Farkas) or cert.const < 0:
         return False
-    total = ({}, Fraction(cert.const))
+    coeffs: dict = {}
+    const = Fraction(cert.const)
     for i, y in cert.mult:
         if not (isinstance(i, int) and 0 <= i < len(atoms)) or y <= 0:
             return False
-        total = _plus(total, _lin(atoms[i].form), Fraction(y))
-    if total[0] != {n: c for n, c in target[0].items() if c != 0} or total[1] != target[1]:
+        for n, c in atoms[i].form.coeffs:
+            coeffs[n] = coeffs.get(n, 0) + y * c
+        const += y * atoms[i].form.const
+    if {n: c for n, c in coeffs.items() if c != 0} != {n: c for n, c in target[0].items() if c != 0} \
+            or const != target[1]:
         return False
     return not strict or cert.const > 0 or any(atoms[i].strict for i, _ in cert.mult)
 
@@ -164,3 +168,42 @@ def check_certificate(cert: Certificate) -> bool:
             all(_farkas_ok(t, atoms, c, s) for (t, s), c in zip(obs, cert.farkas))
     except (TypeError, ValueError, AttributeError, IndexError, KeyError):
         return False
+
+
+# ---------------------------------------------------------------------------------------------
+# compact transport between processes (plain tuples of ints unpickle an order of magnitude faster
+# than trees of dataclasses holding Fractions)
+# ---------------------------------------------------------------------------------------------
+
+def pack(x, memo=None):
+    """A Piece / Bound / Farkas tree as nested tuples of str and int (shared subtrees once)."""
+    memo = {} if memo is None else memo
+    if x is None:
+        return None
+    if id(x) in memo:
+        return memo[id(x)]
+    if isinstance(x, Farkas):
+        out = (2, x.const.numerator, x.const.denominator, tuple((i, y.numerator, y.denominator) for i, y in x.mult))
+    elif isinstance(x, Piece):
+        out = (0, x.kind, tuple(pack(s, memo) for s in x.subs), x.index, tuple(pack(b, memo) for b in x.bounds))
+    else:
+        out = (1, x.kind, tuple(pack(s, memo) for s in x.subs), x.index, pack(x.piece, memo), pack(x.cert, memo))
+    memo[id(x)] = out
+    return out
+
+
+def unpack(t, memo=None):
+    """Inverse of pack."""
+    memo = {} if memo is None else memo
+    if t is None:
+        return None
+    if id(t) in memo:
+        return memo[id(t)]
+    if t[0] == 2:
+        out = Farkas(Fraction(t[1], t[2]), tuple((i, Fraction(n, d)) for i, n, d in t[3]))
+    elif t[0] == 0:
+        out = Piece(t[1], tuple(unpack(s, memo) for s in t[2]), t[3], tuple(unpack(b, memo) for b in t[4]))
+    else:
+        out = Bound(t[1], tuple(unpack(s, memo) for s in t[2]), t[3], unpack(t[4], memo), unpack(t[5], memo))
+    memo[id(t)] = out
+    return out

@@ -12,7 +12,8 @@ solved through its dual, which has one row per parameter, so tableaus stay tiny:
 its optimal y are the Farkas multipliers (`f = v + sum y_i a_i` identically) and the simplex
 multipliers of its rows are an optimal primal point.
 
-Strict atoms: LP works on the closure; `strict_farkas` and `feasible` settle strictness exactly.
+Strict atoms: LP works on the closure; `feasible` (and lp_farkas.strict_farkas) settle strictness
+exactly.  Farkas certificates live in lp_farkas.
 """
 
 from __future__ import annotations
@@ -278,70 +279,3 @@ def feasible(atoms: Sequence[Atom], names: Sequence[str]) -> dict | None:
     if got is None or got[0] <= 0:
         return None
     return dict(zip(names, got[1]))
-
-
-# ---------------------------------------------------------------------------------------------
-# Farkas certificates
-# ---------------------------------------------------------------------------------------------
-
-@dataclass(frozen=True)
-class Farkas:
-    """`form == const + sum mult[i] * atoms[i].form` with const >= 0 and mult >= 0 proves form >= 0 on
-    the polyhedron; it proves form > 0 when const > 0 or some strict atom has a positive multiplier."""
-
-    const: Fraction
-    mult: tuple[tuple[int, Fraction], ...]  # (atom index, positive multiplier)
-
-
-def farkas(form: Affine, atoms: Sequence[Atom], names: Sequence[str], strict: bool) -> Farkas | None:
-    """A certificate that `form >= 0` (or `> 0` if strict) on the polyhedron, or None if false there.
-
-    Assumes the polyhedron is non-empty (for an empty one the answer may be None)."""
-    res = minimize(form, atoms, names)
-    if res.status != "optimal" or res.value < 0 or (strict and res.value == 0 and not
-                                                  any(a.strict for a in atoms)):
-        return None
-    if res.value > 0 or not strict:
-        return Farkas(res.value, tuple((i, y) for i, y in enumerate(res.multipliers) if y))
-    return strict_farkas(form, atoms, names)
-
-
-def strict_farkas(form: Affine, atoms: Sequence[Atom], names: Sequence[str]) -> Farkas | None:
-    """form == sum y_i atoms_i (no constant) with positive total weight on strict atoms, if any.
-
-    By Motzkin's transposition theorem this exists exactly when min form = 0 on the closure and
-    the face where form = 0 misses the (partly open) polyhedron.  Solved homogenised:
-    max sum_strict y s.t. sum y_i a_i = lam * form, sum_strict y <= 1, y, lam >= 0; then y / lam.
-    (lam = 0 with strict weight would make a strict atom an implicit equality: an empty polyhedron.)"""
-    rows = rows_of([a.form for a in atoms], names)
-    f = rows_of([form], names)[0]
-    m, n = len(rows), len(names)
-    strict = [a.strict for a in atoms]
-    if not any(strict):
-        return None
-    # variables: y_1..y_m, lam, slack s
-    M = [[rows[i][0][k] for i in range(m)] + [-f[0][k], ZERO] for k in range(n)]
-    M.append([rows[i][1] for i in range(m)] + [-f[1], ZERO])
-    M.append([ONE if strict[i] else ZERO for i in range(m)] + [ZERO, ONE])
-    r = [ZERO] * (n + 1) + [ONE]
-    c = [ONE if strict[i] else ZERO for i in range(m)] + [ZERO, ZERO]
-    res = solve_standard(c, M, r)
-    if res.status != "optimal" or res.value <= 0 or res.y[m] <= 0:
-        return None
-    lam = res.y[m]
-    return Farkas(ZERO, tuple((i, y / lam) for i, y in enumerate(res.y[:m]) if y))
-
-
-def check_farkas(form: Affine, atoms: Sequence[Atom], cert: Farkas, strict: bool) -> bool:
-    """Independent re-check of a Farkas certificate by plain Fraction arithmetic."""
-    if cert.const < 0 or any(y <= 0 or not 0 <= i < len(atoms) for i, y in cert.mult):
-        return False
-    total: dict[str, Fraction] = {}
-    const = cert.const
-    for i, y in cert.mult:
-        for n, c in atoms[i].form.coeffs:
-            total[n] = total.get(n, ZERO) + y * c
-        const += y * atoms[i].form.const
-    if {n: c for n, c in total.items() if c} != dict(form.coeffs) or const != form.const:
-        return False
-    return not strict or cert.const > 0 or any(atoms[i].strict for i, _ in cert.mult)

@@ -19,7 +19,8 @@ from fractions import Fraction
 from typing import Sequence
 
 from .expr import Affine, affine
-from .lp import ONE, ZERO, farkas, feasible, max_slack, minimize_rows, rows_of
+from .lp import ONE, ZERO, feasible, max_slack, minimize_rows, rows_of
+from .lp_farkas import farkas
 from .region import Atom
 
 

@@ -23,7 +23,8 @@ from __future__ import annotations
 
 import time
 from concurrent.futures import ProcessPoolExecutor
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field
+from functools import partial
 from typing import Callable, Mapping
 
 from .analysis import Gap, PartReport, max_gap, part_reports
@@ -32,10 +33,11 @@ from .errors import RegionError
 from .failure import FailureRegion, failure_region
 from .lp_shape import reduce_modulo
 from .prove import Verdict, prove
-from .regime_geometry import region_is_convex
+from .regime_geometry import cell_polytope, convex_union, nice, region_is_convex
 from .regime_spec import spec_of, targets
-from .regime_work import PROVED, REFUTED, UNKNOWN, Job, Regime, analyse_regime
+from .regime_work import PROVED, REFUTED, UNKNOWN, Regime, assemble, finish_cell, received
 from .regimes import decompose, disjoint_pieces
+from .regimes import worker_setup as regimes_worker_setup
 from .thresholds import Threshold, thresholds
 from .witness import Counterexample, describe
 
@@ -78,30 +80,49 @@ def _key(spec, cell, index):
     return forms, tuple(active)
 
 
-def _jobs(spec, cells, tgts, options):
+def _shown(members, polys, by_piece, pieces, names):
+    """Presented polytopes of one regime: per region piece, the merged union when it is convex."""
+    out = []
+    ids = {id(c) for c in members}
+    for piece in sorted({c.piece for c in members}):
+        mine = [k for k, c in enumerate(members) if c.piece == piece]
+        others = [p for c, p in by_piece[piece] if id(c) not in ids]
+        merged = convex_union([polys[k] for k in mine], others, pieces[piece], names) \
+            if len(mine) > 1 else None
+        out += [merged] if merged is not None else [polys[k] for k in mine]
+    return out
+
+
+def _regimes(spec, cells, tgts, pieces, pool):
+    """Group decided cells into regimes (same formulas and active parts) and present each."""
     index = {e.key: i for i, e in enumerate(tgts)}
     groups: dict = {}
     for cell in cells:
         groups.setdefault(_key(spec, cell, index), []).append(cell)
-    jobs = []
-    for k, ((_, active), members) in enumerate(groups.items()):
-        forms = tuple(tuple(c.forms[index[e.key]] for e in spec.exprs) for c in members)
-        pieces = tuple(tuple(c.proofs[index[e.key]] for e in spec.exprs) for c in members)
-        jobs.append(Job(spec, k, tuple(members), forms, pieces, active, options))
-    return jobs
+    polys = {id(c): cell_polytope(c) for c in cells}
+    by_piece: dict = {}
+    for c in cells:
+        by_piece.setdefault(c.piece, []).append((c, polys[id(c)]))
+    shown = [_shown(m, [polys[id(c)] for c in m], by_piece, pieces, spec.names) for m in groups.values()]
+    flat = [p for group in shown for p in group]
+    nice_all = list(pool.map(_nice, flat, [spec.names] * len(flat), chunksize=8) if pool is not None
+                    else map(_nice, flat, [spec.names] * len(flat)))
+    regimes, k = [], 0
+    for r, ((_, active), members) in enumerate(groups.items()):
+        polytopes = nice_all[k:k + len(shown[r])]
+        k += len(shown[r])
+        forms = tuple(members[0].forms[index[e.key]] for e in spec.exprs)
+        regimes.append(assemble(r, members, polytopes, forms, active))
+    return tuple(regimes)
 
 
-def _mapper(pool, progress, stage):
-    def run(fn, items):
-        items = list(items)
-        results = pool.map(fn, items) if pool is not None else map(fn, items)
-        out = []
-        for k, got in enumerate(results, 1):
-            out.append(got)
-            if progress:
-                progress(stage, k, len(items))
-        return out
-    return run
+def _nice(poly, names):
+    return nice(poly, names)
+
+
+def _worker_setup(spec, tgts, options, index):
+    regimes_worker_setup(tgts, spec.names, partial(finish_cell, spec=spec, options=options, index=index,
+                                                   ship=True))
 
 
 def prove_by_regimes(claim: Claim, solver: str = "z3", timeout: float = 30.0, cross_check: bool = False,
@@ -110,24 +131,26 @@ def prove_by_regimes(claim: Claim, solver: str = "z3", timeout: float = 30.0, cr
                      improve_witness: bool = True) -> RegimeProof:
     """Decide `claim` regime by regime (see the module docstring).
 
-    smt: 'claim' (one one-shot cross-check, default), 'regimes' (also each regime separately), or
+    smt: 'claim' (one one-shot cross-check, default), 'regimes' (also each cell separately), or
     'none'.  box: {name: (lo, hi)} clips unbounded failure sets when locating the worst violation.
-    progress(stage, done, total) is called as cells and regimes finish."""
+    progress(stage, done, total) is called as cells are found and decided ('cells')."""
     clock = {"start": time.perf_counter()}
     spec = spec_of(claim)
     pieces = disjoint_pieces(spec.region, spec.names)
     if not pieces:
         raise RegionError(f"the region '{spec.region.text()}' of claim '{claim.name or claim.text()}' is empty")
     tgts = targets(spec)
+    index = tuple(next(i for i, t in enumerate(tgts) if t.key == e.key) for e in spec.exprs)
     options = {"box": box, "improve_witness": improve_witness, "solver": solver,
                "timeout": min(timeout, 10.0), "smt_regimes": smt == "regimes", "claim": claim}
-    pool = ProcessPoolExecutor(max_workers=workers) if workers > 1 else None
+    pool = ProcessPoolExecutor(max_workers=workers, initializer=_worker_setup,
+                               initargs=(spec, tgts, options, index)) if workers > 1 else None
     try:
-        cells = decompose(tgts, spec.region, spec.names, _mapper(pool, progress, "cells"),
-                          want=4 * workers if pool else 1)
+        finish = partial(finish_cell, spec=spec, options=options, index=index, ship=False)
+        cells = decompose(tgts, spec.region, spec.names, pool, progress, finish=finish)
+        cells = [received(c, spec) for c in cells]
         clock["decompose"] = time.perf_counter()
-        jobs = _jobs(spec, cells, tgts, options)
-        regimes = tuple(_mapper(pool, progress, "regimes")(analyse_regime, jobs))
+        regimes = _regimes(spec, cells, tgts, pieces, pool)
     finally:
         if pool is not None:
             pool.shutdown()

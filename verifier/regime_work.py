@@ -1,25 +1,26 @@
-"""The verdict on one regime: exact per-cell decisions, certificates, failure pieces, geometry.
+"""The verdict on each cell and on each regime: exact decisions, certificates, failure pieces.
 
 Why per cell and exact: on a cell every compared expression is one affine form, so each obligation of
-the claim is a single affine inequality and "does it hold on the cell" is one LP.  The LP's dual is
-the Farkas certificate, re-checked by the independent checker before the cell counts as certified; if
-no certificate exists the failure polyhedron cell & {not obligation} is non-empty by construction and
-the regime is refuted there.  A cell where neither happens (it should not) is 'unknown' and, when
-asked, goes to the SMT backend restricted to that regime.
+the claim is a single affine inequality.  Its Farkas certificate (from the cell's generators) is
+re-checked by the independent checker before the cell counts as certified; if no certificate exists,
+the failure polyhedron cell & {not obligation} is non-empty by construction and the cell is refuted
+there.  A cell where neither happens (it should not) is 'unknown' and goes to the SMT backend
+restricted to it, as does every cell when SMT per regime is asked for.
 
-This module is what worker processes run, one regime per task; everything it returns is picklable.
+`finish_cell` runs where the cell was found (a worker process, right after decomposition), so the
+heaviest work is spread by the same dynamic scheduler; `assemble` builds a Regime in the main process.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
-from fractions import Fraction
-from typing import Mapping, Sequence
+from dataclasses import dataclass, replace
+from typing import Mapping
 
-from .certificates import Certificate, certify, check_certificate
+from .cell_proof import with_certificates
+from .certificates import Certificate, certify, check_certificate, pack, unpack
 from .expr import Affine
 from .failure import FailurePiece, denominator, failure_piece, smallest_denominator, violations
-from .regime_geometry import Polytope, present
+from .regime_geometry import Polytope
 from .regime_spec import Spec
 from .regimes import Cell
 
@@ -30,13 +31,14 @@ PROVED, REFUTED, UNKNOWN = "proved", "refuted", "unknown"
 class Regime:
     """Cells sharing the same affine formulas and active named parts.
 
-    `polytopes`: the regime as convex pieces (one when the union of its cells is convex);
-    `point`/`dim`: a nice relative-interior point and the dimension of the first piece;
+    `polytopes`: the regime as convex pieces (one per region piece when the union of its cells there
+    is convex); `point`/`dim`: a nice relative-interior point and the dimension of the first piece;
     `forms`: affine formula of each compared expression (lhs, rhs; or f for monotone);
     `active`: per side, the named parts equal to that side on the whole regime;
-    `status`: proved / refuted / unknown; `certified`: every cell has a certificate that passed
-    check_certificate; `certificates`: one per cell (proved cells only); `failures`: where it fails;
-    `smt_status`: the SMT backend's answer on this regime when asked ('' otherwise)."""
+    `status`: proved / refuted / unknown; `certified`: every cell was proved by a certificate that
+    passed check_certificate; `certificates`: one per proved cell; `failures`: where it fails;
+    `smt_status`: the SMT backend's answer on the regime's cells when asked ('' otherwise);
+    `detail`: loud notes (METHODS DISAGREE, decided by SMT)."""
 
     index: int
     polytopes: tuple[Polytope, ...]
@@ -54,75 +56,103 @@ class Regime:
 
 
 @dataclass(frozen=True)
-class Job:
-    spec: Spec
-    index: int
-    cells: tuple[Cell, ...]
-    forms: tuple[tuple[Affine, ...], ...]     # per cell: forms of spec.exprs
-    pieces: tuple[tuple, ...]                 # per cell: Piece proofs of spec.exprs
-    active: tuple[tuple[str, ...], ...]
-    options: Mapping = field(default_factory=dict)
+class CellVerdict:
+    status: str
+    certificate: Certificate | None
+    failures: tuple[FailurePiece, ...]
+    smt: str = ""
+    detail: str = ""
 
 
-def _cell_verdict(job: Job, k: int):
-    spec, cell, names = job.spec, job.cells[k], job.spec.names
-    cert = certify(spec, cell.atoms, job.forms[k], job.pieces[k], names)
+def _verdict(spec: Spec, options: Mapping, atoms, forms, pieces) -> CellVerdict:
+    names = spec.names
+    cert = certify(spec, atoms, forms, pieces, names) if pieces is not None else None
     if cert is not None and check_certificate(cert):
-        return PROVED, cert, []
-    bad = violations(spec, cell.atoms, job.forms[k], names)
+        return CellVerdict(PROVED, cert, ())
+    bad = violations(spec, atoms, forms, names)
     if not bad:
-        return UNKNOWN, None, []
-    opts = job.options
-    pieces = []
-    for ob, atoms in bad:
-        piece = failure_piece(spec, job.index, ob, atoms, job.forms[k], names, opts.get("box"))
-        if opts.get("improve_witness") and spec.kind == "compare":
+        return CellVerdict(UNKNOWN, None, ())  # no certificate yet no violation: should not happen
+    found = []
+    for ob, poly in bad:
+        piece = failure_piece(spec, -1, ob, poly, forms, names, options.get("box"))
+        if options.get("improve_witness") and spec.kind == "compare":
             bound = denominator(piece.point)
-            small = smallest_denominator(piece.polyhedron.atoms, names, bound, opts.get("solver", "z3"),
-                                         opts.get("timeout", 10.0)) if bound > 1 else None
-            piece = _with_small(piece, small)
-        pieces.append(piece)
-    return REFUTED, None, pieces
+            small = smallest_denominator(piece.polyhedron.atoms, names, bound, options.get("solver", "z3"),
+                                         options.get("timeout", 10.0)) if bound > 1 else None
+            piece = replace(piece, small_point=small)
+        found.append(piece)
+    return CellVerdict(REFUTED, None, tuple(found))
 
 
-def _with_small(piece: FailurePiece, small) -> FailurePiece:
-    from dataclasses import replace
-    return replace(piece, small_point=small)
+def finish_cell(cell: Cell, spec: Spec, options: Mapping, index: tuple[int, ...], ship: bool) -> Cell:
+    """Decide the claim on a fresh cell and attach the CellVerdict as `cell.extra`.
+
+    `index[i]` is the target number of spec.exprs[i].  With `ship` (the cell travels back from a
+    worker) the proofs are dropped and certificates lose their expressions (see `received`)."""
+    forms = tuple(cell.forms[i] for i in index)
+    pieces = []
+    for e, i in zip(spec.exprs, index):
+        got = with_certificates(e, cell.proofs[i], cell.atoms, spec.names, cell.cone)
+        if got is None:
+            pieces = None
+            break
+        pieces.append(got[1])
+    verdict = _verdict(spec, options, cell.atoms, forms, tuple(pieces) if pieces is not None else None)
+    if options.get("smt_regimes") or verdict.status == UNKNOWN:
+        verdict = _smt_cell(cell, spec, options, verdict)
+    if ship:
+        c = verdict.certificate
+        if c is not None:
+            memo: dict = {}
+            c = replace(c, exprs=(), pieces=tuple(pack(p, memo) for p in c.pieces),
+                        farkas=tuple(pack(f, memo) for f in c.farkas))
+        return replace(cell, proofs=(), extra=replace(verdict, certificate=c))
+    return replace(cell, extra=verdict)
 
 
-def analyse_regime(job: Job) -> Regime:
-    """Decide, certify and describe one regime (see the module docstring)."""
-    verdicts = [_cell_verdict(job, k) for k in range(len(job.cells))]
-    certs = tuple(c for _, c, _ in verdicts if c is not None)
-    failures = tuple(p for _, _, ps in verdicts for p in ps)
-    statuses = {s for s, _, _ in verdicts}
-    status = REFUTED if REFUTED in statuses else (PROVED if statuses == {PROVED} else UNKNOWN)
-    polytopes = present([c.atoms for c in job.cells], job.spec.names)
-    regime = Regime(job.index, polytopes, polytopes[0].point, polytopes[0].dim, job.forms[0],
-                    job.active, status, len(certs) == len(job.cells), certs, failures, job.cells)
-    if job.options.get("smt_regimes") or status == UNKNOWN:
-        regime = _smt_regime(job, regime)
-    return regime
+def received(cell: Cell, spec: Spec) -> Cell:
+    """A cell shipped from a worker, with its certificate unpacked and its expressions re-attached."""
+    v = cell.extra
+    c = v.certificate
+    if c is None or c.exprs:
+        return cell
+    memo: dict = {}
+    c = replace(c, exprs=tuple(spec.exprs), pieces=tuple(unpack(p, memo) for p in c.pieces),
+                farkas=tuple(unpack(f, memo) for f in c.farkas))
+    return replace(cell, extra=replace(v, certificate=c))
 
 
-def _smt_regime(job: Job, regime: Regime) -> Regime:
-    """Ask the SMT backend about this regime alone; disagreement is loud and makes it unknown."""
-    from dataclasses import replace
+def _smt_cell(cell: Cell, spec: Spec, options: Mapping, verdict: CellVerdict) -> CellVerdict:
+    """Ask the SMT backend about this cell alone; disagreement is loud and makes it unknown."""
     from .claims import violation_query
     from .region import Polyhedron, Region
     from .smt import check
-    claim = job.options.get("claim")
-    if claim is None or job.spec.kind != "compare":
-        return replace(regime, smt_status="n/a")
-    region = Region(tuple(Polyhedron(c.atoms) for c in job.cells))
-    answer = check(violation_query(claim, region), job.options.get("solver", "z3"),
-                   job.options.get("timeout", 30.0))
+    claim = options.get("claim")
+    if claim is None or spec.kind != "compare":
+        return replace(verdict, smt="n/a")
+    answer = check(violation_query(claim, Region((Polyhedron(cell.atoms),))), options.get("solver", "z3"),
+                   options.get("timeout", 30.0))
     said = {"unsat": PROVED, "sat": REFUTED}.get(answer.status, UNKNOWN)
-    if regime.status == UNKNOWN:
-        return replace(regime, status=said, smt_status=said,
-                       detail=f"decided by {answer.solver} (no certificate)")
-    if said != UNKNOWN and said != regime.status:
-        return replace(regime, status=UNKNOWN, smt_status=said,
-                       detail=f"METHODS DISAGREE on regime {regime.index}: regimes say {regime.status}, "
-                              f"{answer.solver} says {said}")
-    return replace(regime, smt_status=said)
+    if verdict.status == UNKNOWN:
+        return replace(verdict, status=said, smt=said, detail=f"decided by {answer.solver} (no certificate)")
+    if said != UNKNOWN and said != verdict.status:
+        return replace(verdict, status=UNKNOWN, smt=said,
+                       detail=f"METHODS DISAGREE: regimes say {verdict.status}, {answer.solver} says {said}")
+    return replace(verdict, smt=said)
+
+
+def _status(statuses) -> str:
+    statuses = set(statuses)
+    return REFUTED if REFUTED in statuses else (PROVED if statuses == {PROVED} else UNKNOWN)
+
+
+def assemble(index: int, cells, polytopes, forms, active) -> Regime:
+    """A regime from its decided cells and presented polytopes."""
+    verdicts = [c.extra for c in cells]
+    certs = tuple(v.certificate for v in verdicts if v.certificate is not None)
+    failures = tuple(replace(p, regime=index) for v in verdicts for p in v.failures)
+    smt = "/".join(sorted({v.smt for v in verdicts if v.smt}))
+    detail = "; ".join(dict.fromkeys(f"regime {index}: {v.detail}" for v in verdicts if v.detail))
+    return Regime(index, tuple(polytopes), polytopes[0].point, polytopes[0].dim, forms, active,
+                  _status(v.status for v in verdicts), len(certs) == len(verdicts), certs, failures,
+                  tuple(cells), smt, detail)

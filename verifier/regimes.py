@@ -11,19 +11,21 @@ hyperplane h = 0 is normalised so that the coefficient of the alphabetically fir
 breakpoint therefore belongs to the interval on its right.  Overlapping region pieces are first made
 disjoint (a later piece loses what earlier pieces already cover).
 
-Parallelism: `frontier` expands the first few cuts breadth-first; each pending cell is an independent
-task (`refine`) that a process pool can run; the result does not depend on who runs what, and cells
-are finally sorted by their interior points, so the output is the same for any number of workers.
+Parallelism: each pending cell is an independent task (`refine`, a bounded number of steps at a time)
+that any worker of a process pool can run; the set of cells does not depend on who runs what, and
+cells are finally sorted by their interior points, so the output is the same for any number of
+workers.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from fractions import Fraction
 from typing import Callable, Sequence
 
 from .expr import Affine, Expr, affine
-from .cell_proof import NeedSplit, Piece, affine_pieces
+from .cell_proof import NeedSplit, Piece, affine_pieces, number_nodes
+from .lp_vertices import Cone
 from .lp_shape import difference, shape
 from .region import Atom, Region
 
@@ -32,8 +34,10 @@ from .region import Atom, Region
 class Cell:
     """A convex piece of the region (raw atoms: region piece + cuts) where every target is affine.
 
-    `forms[i]` is the affine form of target i on the cell, `proofs[i]` its Piece proof (atoms are
-    referred to by index into `atoms`); `hull` the equations of the region piece's affine hull."""
+    `forms[i]` is the affine form of target i on the cell, `proofs[i]` its Piece proof, without
+    Farkas certificates yet (cell_proof.with_certificates adds them); `hull` the equations of the
+    region piece's affine hull; `cone` the generators of the closure; `piece` the index of the
+    (disjoint) region piece the cell lies in; `extra` what a `finish` hook attached (the verdict)."""
 
     atoms: tuple[Atom, ...]
     point: dict
@@ -41,6 +45,9 @@ class Cell:
     forms: tuple[Affine, ...]
     proofs: tuple[Piece, ...]
     hull: tuple[Affine, ...] = ()
+    cone: Cone | None = None
+    piece: int = 0
+    extra: object = None
 
     def key_point(self, names: Sequence[str]) -> tuple:
         return tuple(self.point[n] for n in names)
@@ -70,84 +77,109 @@ def disjoint_pieces(region: Region, names: Sequence[str]) -> list[tuple[Atom, ..
 
 @dataclass(frozen=True)
 class Task:
-    """A cell still to be refined, with the proofs inherited from its ancestors."""
+    """A cell still to be refined, with its generators (a Cone) and the proofs inherited from its
+    ancestors (valid on the cell: its atoms extend the ancestors' atoms)."""
 
     atoms: tuple[Atom, ...]
     point: dict
     dim: int
     hull: tuple[Affine, ...]
     memo: dict
+    cone: Cone
+    piece: int = 0
 
 
-def _step(task: Task, targets: Sequence[Expr], names: Sequence[str]):
+def _step(task: Task, targets: Sequence[Expr], names: Sequence[str], numbers: dict):
     """Either a finished Cell or the two child Tasks of the cut the proof asked for."""
     memo = dict(task.memo)
     try:
-        forms, proofs = affine_pieces(targets, task.atoms, names, task.point, memo)
-        return Cell(task.atoms, task.point, task.dim, forms, proofs, task.hull)
+        forms, proofs = affine_pieces(targets, task.atoms, names, task.point, memo, numbers, task.cone)
+        return Cell(task.atoms, task.point, task.dim, forms, proofs, task.hull, task.cone, task.piece)
     except NeedSplit as need:
         kids = []
         for atoms in cut(task.atoms, need.form):
-            s = shape(atoms, names)
-            if s is None or s.dim != task.dim:  # cannot happen (see cell_proof); be loud
+            cone = task.cone.add(atoms[-1].form)
+            if cone.empty:  # cannot happen (see cell_proof); be loud
                 raise AssertionError(f"cut {need.form} did not split the cell properly")
-            kids.append(Task(atoms, s.point, s.dim, task.hull, memo))
+            kids.append(Task(atoms, cone.interior_point(), task.dim, task.hull, memo, cone, task.piece))
         return kids
 
 
-def refine(task: Task, targets: Sequence[Expr], names: Sequence[str]) -> list[Cell]:
-    """All final cells below one task, depth first (h >= 0 side first)."""
-    stack, cells = [task], []
-    while stack:
-        got = _step(stack.pop(), targets, names)
+def refine(tasks, targets: Sequence[Expr], names: Sequence[str], seconds: float | None = None,
+           finish: Callable | None = None):
+    """Final cells below the given task(s), depth first (h >= 0 side first), each passed through
+    `finish`.  With a time budget in `seconds`, stops after it and also returns the tasks still
+    pending, so a scheduler can hand them to idle workers: returns (cells, pending) then."""
+    import time
+    numbers = number_nodes(targets)
+    stack = list(reversed(tasks)) if isinstance(tasks, list) else [tasks]
+    cells, start = [], time.perf_counter()
+    while stack and (seconds is None or time.perf_counter() - start < seconds):
+        got = _step(stack.pop(), targets, names, numbers)
         if isinstance(got, Cell):
-            cells.append(got)
+            cells.append(finish(got) if finish is not None else got)
         else:
             stack.extend(reversed(got))
-    return cells
+    return cells if seconds is None else (cells, stack[::-1])
 
 
 def initial_tasks(region: Region, names: Sequence[str]) -> list[Task]:
     tasks = []
-    for atoms in disjoint_pieces(region, names):
+    for k, atoms in enumerate(disjoint_pieces(region, names)):
         s = shape(atoms, names)
         if s is not None:
-            tasks.append(Task(tuple(atoms), s.point, s.dim, s.hull, {}))
+            tasks.append(Task(tuple(atoms), s.point, s.dim, s.hull, {}, Cone.of(atoms, names), k))
     return tasks
 
 
-def frontier(region: Region, targets, names, want: int) -> tuple[list[Cell], list[Task]]:
-    """Breadth-first expansion until at least `want` tasks are pending (or all cells are final)."""
-    cells, queue = [], initial_tasks(region, names)
-    while queue and len(queue) < want:
-        got = _step(queue.pop(0), targets, names)
-        if isinstance(got, Cell):
-            cells.append(got)
-        else:
-            queue.extend(got)
-    return cells, queue
+_WORKER: dict = {}
 
 
-def decompose(targets: Sequence[Expr], region: Region, names: Sequence[str],
-              mapper: Callable | None = None, want: int = 1) -> list[Cell]:
+def worker_setup(targets: Sequence[Expr], names: Sequence[str], finish: Callable | None = None) -> None:
+    """Process-pool initializer: the targets (and the finish hook) travel once per worker."""
+    _WORKER.update(targets=tuple(targets), names=tuple(names), finish=finish)
+
+
+def refine_in_worker(tasks: list, seconds: float):
+    return refine(tasks, _WORKER["targets"], _WORKER["names"], seconds, _WORKER["finish"])
+
+
+def decompose(targets: Sequence[Expr], region: Region, names: Sequence[str], pool=None,
+              progress: Callable | None = None, seconds: float = 0.5, finish: Callable | None = None) -> list[Cell]:
     """Cells covering `region` on which every target is affine, sorted by interior point.
 
-    `mapper(fn, tasks)` may run `refine` on the pending tasks elsewhere (a process pool); `want` is
-    how many tasks to prepare for it."""
-    names = tuple(names)
-    targets = tuple(targets)
-    cells, tasks = frontier(region, targets, names, want)
-    if mapper is None:
+    With a process `pool` (concurrent.futures, initialised by worker_setup with the same targets,
+    names and finish hook) workers refine batches of pending cells for about `seconds` each and
+    send back what is left, which is split again among idle workers (dynamic load balancing).  The
+    set of cells does not depend on the schedule.  progress('cells', found, found + batches left)."""
+    names, targets = tuple(names), tuple(targets)
+    tasks = initial_tasks(region, names)
+    if pool is None:
+        cells = []
         for t in tasks:
-            cells += refine(t, targets, names)
-    else:
-        for got in mapper(_refine_packed, [(t, targets, names) for t in tasks]):
+            cells += refine([t], targets, names, finish=finish)
+            if progress:
+                progress("cells", len(cells), len(cells))
+        return sorted(cells, key=lambda c: c.key_point(names))
+    from concurrent.futures import FIRST_COMPLETED, wait
+    n = pool._max_workers
+    cells: list[Cell] = []
+    queue = [tasks[k::n] for k in range(n) if tasks[k::n]]
+    running: set = set()
+    while queue or running:
+        while queue and len(running) < n:
+            running.add(pool.submit(refine_in_worker, queue.pop(0), seconds))
+        done, running = wait(running, return_when=FIRST_COMPLETED)
+        for fut in done:
+            got, pending = fut.result()
             cells += got
+            parts = n if not queue else 1  # split leftovers only while workers would idle
+            queue += [pending[k::parts] for k in range(parts) if pending[k::parts]]
+        if progress:
+            progress("cells", len(cells), len(cells) + len(running) + len(queue))
+    if progress:
+        progress("cells", len(cells), len(cells))
     return sorted(cells, key=lambda c: c.key_point(names))
-
-
-def _refine_packed(args) -> list[Cell]:
-    return refine(*args)
 
 
 def point_key(point: dict, names: Sequence[str]) -> tuple[Fraction, ...]:
