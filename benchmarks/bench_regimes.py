@@ -25,7 +25,7 @@ from fractions import Fraction as F
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), ".."))
 
 from verifier.claims import Side, relation  # noqa: E402
-from verifier.expr import Affine, Max, Min, Sum, extremum_nodes, max_, min_, param, pos  # noqa: E402
+from verifier.expr import Affine, Min, Sum, extremum_nodes, max_, min_, param, pos  # noqa: E402
 from verifier.lp import combine, feasible  # noqa: E402
 from verifier.prove import prove  # noqa: E402
 from verifier.regime_proof import prove_by_regimes  # noqa: E402

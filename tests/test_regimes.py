@@ -4,7 +4,7 @@ and properties on random claims (partition, affinity, agreement with the one-sho
 from fractions import Fraction as F
 
 import pytest
-from hypothesis import assume, given, settings
+from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from verifier.claims import Side, monotone, reduces_to, relation, symmetric

@@ -22,7 +22,7 @@ from typing import Mapping, Sequence
 
 from .lp import maximize
 from .lp_shape import irredundant, nice_point, shape
-from .lp_vertices import volume
+from .lp_volume import volume
 from .region import Atom, Polyhedron, Region
 from .regime_spec import Spec, obligations, violation_amount
 from .witness import DENOMINATORS

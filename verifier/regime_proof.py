@@ -28,7 +28,7 @@ from functools import partial
 from typing import Callable, Mapping
 
 from .analysis import Gap, PartReport, max_gap, part_reports
-from .claims import Claim, violated_at, witness_region
+from .claims import Claim
 from .errors import RegionError
 from .failure import FailureRegion, failure_region
 from .lp_shape import reduce_modulo
@@ -39,7 +39,8 @@ from .regime_work import PROVED, REFUTED, UNKNOWN, Regime, assemble, finish_cell
 from .regimes import decompose, disjoint_pieces
 from .regimes import worker_setup as regimes_worker_setup
 from .thresholds import Threshold, thresholds
-from .witness import Counterexample, describe
+from .regime_witness import counterexamples
+from .witness import Counterexample
 
 
 @dataclass(frozen=True)
@@ -162,7 +163,7 @@ def _assemble(claim, spec, pieces, cells, regimes, clock, solver, timeout, cross
     ths = thresholds(regimes, spec.names)
     fails = [p for r in regimes for p in r.failures]
     failure = failure_region(fails, pieces, spec.names) if spec.kind == "compare" else None
-    cexs = _counterexamples(claim, spec, regimes)
+    cexs = counterexamples(claim, spec, regimes)
     parts = part_reports(tuple(dict.fromkeys((s, n) for s, n, _ in spec.parts)), regimes)
     gaps = (max_gap(regimes, spec.names, 1), max_gap(regimes, spec.names, -1)) \
         if spec.kind == "compare" else ()
@@ -212,52 +213,3 @@ def _combine(status, method, verdict, detail):
         return UNKNOWN, False, (f"METHODS DISAGREE: regimes say {status}, {verdict.solver} says "
                                 f"{verdict.status}; treat as unknown and report it")
     return status, True, detail
-
-
-def _counterexamples(claim, spec, regimes):
-    """Best first: full-dimensional failures, then small denominators; every one re-checked."""
-    out = []
-    for r in regimes:
-        if r.status != REFUTED:
-            continue
-        if spec.kind == "monotone":
-            point = _monotone_pair(spec, r)
-            if point is not None:
-                out.append((0, 1, describe(claim, point, witness_region(claim).interior().contains(point),
-                                           f"slope {r.forms[0].coeff(spec.param)} in regime {r.index}")))
-            continue
-        for piece in r.failures:
-            point = piece.small_point or piece.point
-            origin = "smallest denominator" if piece.small_point else "nice interior point"
-            cex = describe(claim, point, witness_region(claim).interior().contains(point),
-                           f"{origin} of a failure piece in regime {r.index}")
-            out.append((0 if piece.full_dimensional else 1, _den(point), cex))
-            if piece.worst_attained and piece.worst_point is not None:
-                worst = describe(claim, piece.worst_point,
-                                 witness_region(claim).interior().contains(piece.worst_point),
-                                 f"largest violation ({piece.worst_value}) in regime {r.index}")
-                out.append((0 if piece.full_dimensional else 1, _den(piece.worst_point) + 10 ** 6, worst))
-    good = [c for _, _, c in sorted(out, key=lambda t: (t[0], t[1])) if violated_at(claim, c.point)]
-    return tuple(good)
-
-
-def _den(point):
-    from .failure import denominator
-    return denominator(point)
-
-
-def _monotone_pair(spec, regime):
-    """Two points of the failing cell, apart only in p, where f decreases (increases)."""
-    from fractions import Fraction
-    cell = regime.cells[0]
-    z = dict(regime.cells[0].point)
-    p = spec.param
-    step = Fraction(1)
-    for atom in cell.atoms:
-        c = atom.form.coeff(p)
-        if c < 0:
-            room = atom.form.const + sum((k * z[n] for n, k in atom.form.coeffs), Fraction(0))
-            step = min(step, room / (-c) / 2)
-    point = dict(z)
-    point[p + "'"] = z[p] + step
-    return point if step > 0 else None
