@@ -188,6 +188,7 @@ def test_parallel_workers_give_the_same_report_in_the_same_order():
     assert [(r.forms, r.point, r.status, r.polytopes) for r in one.regimes] == \
         [(r.forms, r.point, r.status, r.polytopes) for r in two.regimes]
     assert one.thresholds == two.thresholds
+    assert [r.certificates for r in one.regimes] == [r.certificates for r in two.regimes]
     assert {stage for stage, _, _ in seen} == {"cells"}
     assert seen[-1] == ("cells", two.cells, two.cells)
 

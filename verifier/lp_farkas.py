@@ -89,6 +89,9 @@ def farkas_by_cone(form: Affine, atoms: Sequence[Atom], cone) -> Farkas | None:
     vals = [sum(a * b for a, b in zip(h, r)) for r, _ in cone.rays]
     if any(v < 0 for v in vals) or any(sum(a * b for a, b in zip(h, l)) for l in cone.lines):
         return None
+    single = _one_atom(form, h, atoms, cone)
+    if single is not None:
+        return single
     best = min((Fraction(v, r[-1]), k) for k, ((r, _), v) in enumerate(zip(cone.rays, vals)) if r[-1] > 0)
     r, zero = cone.rays[best[1]]
     tight = [i for i in range(len(atoms)) if i + 1 in zero and atoms[i].form.coeffs]
@@ -101,3 +104,18 @@ def farkas_by_cone(form: Affine, atoms: Sequence[Atom], cone) -> Farkas | None:
     if res.status != "optimal":
         return None
     return Farkas(value, tuple((tight[j], y) for j, y in enumerate(res.y) if y))
+
+
+def _one_atom(form: Affine, h, atoms: Sequence[Atom], cone) -> Farkas | None:
+    """The common case of a cut: form = lam * atom + c with lam > 0, c >= 0 (no LP needed)."""
+    key = cone.vector(Affine(form.coeffs, ZERO))
+    for i, a in enumerate(atoms):
+        if len(a.form.coeffs) != len(form.coeffs) or a.form.coeffs[0][0] != form.coeffs[0][0]:
+            continue
+        if cone.vector(Affine(a.form.coeffs, ZERO)) == key:
+            n, c = a.form.coeffs[0]
+            lam = form.coeff(n) / c
+            rest = form.const - lam * a.form.const
+            if rest >= 0:
+                return Farkas(rest, ((i, lam),))
+    return None

@@ -35,7 +35,7 @@ from .lp_shape import reduce_modulo
 from .prove import Verdict, prove
 from .regime_geometry import cell_polytope, convex_union, nice, region_is_convex
 from .regime_spec import spec_of, targets
-from .regime_work import PROVED, REFUTED, UNKNOWN, Regime, assemble, finish_cell, received
+from .regime_work import PROVED, REFUTED, UNKNOWN, Regime, assemble, finish_cell
 from .regimes import decompose, disjoint_pieces
 from .regimes import worker_setup as regimes_worker_setup
 from .thresholds import Threshold, thresholds
@@ -113,7 +113,7 @@ def _regimes(spec, cells, tgts, pieces, pool):
         polytopes = nice_all[k:k + len(shown[r])]
         k += len(shown[r])
         forms = tuple(members[0].forms[index[e.key]] for e in spec.exprs)
-        regimes.append(assemble(r, members, polytopes, forms, active))
+        regimes.append(assemble(r, members, polytopes, forms, active, spec.exprs))
     return tuple(regimes)
 
 
@@ -149,7 +149,6 @@ def prove_by_regimes(claim: Claim, solver: str = "z3", timeout: float = 30.0, cr
     try:
         finish = partial(finish_cell, spec=spec, options=options, index=index, ship=False)
         cells = decompose(tgts, spec.region, spec.names, pool, progress, finish=finish)
-        cells = [received(c, spec) for c in cells]
         clock["decompose"] = time.perf_counter()
         regimes = _regimes(spec, cells, tgts, pieces, pool)
     finally:

@@ -13,7 +13,8 @@ heaviest work is spread by the same dynamic scheduler; `assemble` builds a Regim
 
 from __future__ import annotations
 
-from dataclasses import dataclass, replace
+from dataclasses import dataclass, field, replace
+from functools import cached_property
 from typing import Mapping
 
 from .cell_proof import with_certificates
@@ -36,7 +37,8 @@ class Regime:
     `forms`: affine formula of each compared expression (lhs, rhs; or f for monotone);
     `active`: per side, the named parts equal to that side on the whole regime;
     `status`: proved / refuted / unknown; `certified`: every cell was proved by a certificate that
-    passed check_certificate; `certificates`: one per proved cell; `failures`: where it fails;
+    passed check_certificate; `certificates` (a property): one per proved cell; `failures`: where
+    it fails;
     `smt_status`: the SMT backend's answer on the regime's cells when asked ('' otherwise);
     `detail`: loud notes (METHODS DISAGREE, decided by SMT)."""
 
@@ -48,11 +50,18 @@ class Regime:
     active: tuple[tuple[str, ...], ...]
     status: str
     certified: bool
-    certificates: tuple[Certificate, ...]
+    stored_certificates: tuple = field(repr=False, compare=False)
     failures: tuple[FailurePiece, ...]
     cells: tuple[Cell, ...]
     smt_status: str = ""
     detail: str = ""
+    exprs: tuple = field(default=(), repr=False, compare=False)
+
+    @cached_property
+    def certificates(self) -> tuple[Certificate, ...]:
+        """One Certificate per proved cell (unpacked on first use: those made in worker processes
+        travel compactly, see received_certificate)."""
+        return tuple(received_certificate(c, self.exprs) for c in self.stored_certificates)
 
 
 @dataclass(frozen=True)
@@ -88,7 +97,7 @@ def finish_cell(cell: Cell, spec: Spec, options: Mapping, index: tuple[int, ...]
     """Decide the claim on a fresh cell and attach the CellVerdict as `cell.extra`.
 
     `index[i]` is the target number of spec.exprs[i].  With `ship` (the cell travels back from a
-    worker) the proofs are dropped and certificates lose their expressions (see `received`)."""
+    worker) the proofs are dropped and certificates travel packed (see received_certificate)."""
     forms = tuple(cell.forms[i] for i in index)
     pieces = []
     for e, i in zip(spec.exprs, index):
@@ -110,16 +119,13 @@ def finish_cell(cell: Cell, spec: Spec, options: Mapping, index: tuple[int, ...]
     return replace(cell, extra=verdict)
 
 
-def received(cell: Cell, spec: Spec) -> Cell:
-    """A cell shipped from a worker, with its certificate unpacked and its expressions re-attached."""
-    v = cell.extra
-    c = v.certificate
-    if c is None or c.exprs:
-        return cell
+def received_certificate(c: Certificate, exprs) -> Certificate:
+    """A certificate shipped from a worker (packed proofs, no expressions) made whole again."""
+    if c.exprs:
+        return c
     memo: dict = {}
-    c = replace(c, exprs=tuple(spec.exprs), pieces=tuple(unpack(p, memo) for p in c.pieces),
-                farkas=tuple(unpack(f, memo) for f in c.farkas))
-    return replace(cell, extra=replace(v, certificate=c))
+    return replace(c, exprs=tuple(exprs), pieces=tuple(unpack(p, memo) for p in c.pieces),
+                   farkas=tuple(unpack(f, memo) for f in c.farkas))
 
 
 def _smt_cell(cell: Cell, spec: Spec, options: Mapping, verdict: CellVerdict) -> CellVerdict:
@@ -146,7 +152,7 @@ def _status(statuses) -> str:
     return REFUTED if REFUTED in statuses else (PROVED if statuses == {PROVED} else UNKNOWN)
 
 
-def assemble(index: int, cells, polytopes, forms, active) -> Regime:
+def assemble(index: int, cells, polytopes, forms, active, exprs) -> Regime:
     """A regime from its decided cells and presented polytopes."""
     verdicts = [c.extra for c in cells]
     certs = tuple(v.certificate for v in verdicts if v.certificate is not None)
@@ -155,4 +161,4 @@ def assemble(index: int, cells, polytopes, forms, active) -> Regime:
     detail = "; ".join(dict.fromkeys(f"regime {index}: {v.detail}" for v in verdicts if v.detail))
     return Regime(index, tuple(polytopes), polytopes[0].point, polytopes[0].dim, forms, active,
                   _status(v.status for v in verdicts), len(certs) == len(verdicts), certs, failures,
-                  tuple(cells), smt, detail)
+                  tuple(cells), smt, detail, tuple(exprs))

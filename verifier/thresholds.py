@@ -35,8 +35,23 @@ def equation_text(form: Affine) -> str:
     return atom_text(form, "==").replace(" == ", " = ")
 
 
+def _apart(a, b, h: Affine, names) -> bool:
+    """Quick exact rejection: bounded facets on h = 0 whose bounding boxes do not meet."""
+    if not (a.bounded and b.bounded):
+        return False
+    on = lambda v: h.const + sum(c * v[n] for n, c in h.coeffs) == 0  # noqa: E731
+    fa = [v for v in a.vertices if on(v)]
+    fb = [v for v in b.vertices if on(v)]
+    if not fa or not fb:
+        return True
+    return any(max(min(v[n] for v in fa), min(v[n] for v in fb)) >
+               min(max(v[n] for v in fa), max(v[n] for v in fb)) for n in names)
+
+
 def _adjacent(a, b, h: Affine, names) -> bool:
     """Do the closures of a and b meet in a set of dimension dim(a) - 1 inside h = 0?"""
+    if _apart(a, b, h, names):
+        return False
     meet = [x.relaxed() for x in a.polyhedron.atoms + b.polyhedron.atoms]
     if a.dim < len(names):
         meet += [Atom(h, False), Atom(h, False).negated().relaxed()]
