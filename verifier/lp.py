@@ -136,7 +136,7 @@ def _run(T, basis, allowed, D):
 
 def _objective(T, basis, cost, D) -> list[int]:
     """Integer reduced-cost row D * (c_B B^-1 A - c) for integer costs."""
-    width = len(T[0])
+    width = len(T[0]) if T else len(cost) + 1
     obj = [-c * D for c in cost] + [0] * (width - len(cost))
     for i, b in enumerate(basis):
         cb = cost[b] if b < len(cost) else 0

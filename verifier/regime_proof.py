@@ -1,9 +1,11 @@
 """prove_by_regimes: decide a claim regime by regime, with certificates, thresholds and failure sets.
 
-Pipeline: spec (regime_spec) -> cells (regimes.decompose) -> regimes (cells grouped by their affine
-formulas and active named parts) -> per-regime exact verdicts and certificates (regime_work, in
-parallel when workers > 1) -> thresholds, failure region, best counterexamples, bound analysis,
-maximum gaps -> a cross-check against the one-shot SMT proof (verifier.prove).
+Pipeline: spec (regime_spec) -> cells (regimes.decompose), each decided and certified by the worker
+that found it (regime_work.finish_cell; a process pool when workers > 1) -> regimes (cells grouped by
+their affine formulas and active named parts, presented as one polytope per region piece when their
+union is convex) -> thresholds, failure region, best counterexamples, bound analysis, maximum gaps ->
+a cross-check against the one-shot SMT proof (verifier.prove).  `timing` has the seconds spent in
+'decompose' (with the per-cell verdicts), 'regimes', 'analysis', 'smt' and 'total'.
 
 Overall status: 'proved' only if every regime is proved and certified (or decided by SMT), 'refuted' if
 any regime fails, else 'unknown'.  If the regime method and the one-shot SMT verdict are both decisive
