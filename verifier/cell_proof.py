@@ -6,15 +6,18 @@ argument of every min/max is active" but "what must hold for the expression to e
 here", and prove only that:
 - min(args) equals arg_j on the cell when arg_j has an affine piece g and every other argument is
   >= g on the cell (max: <= g);
-- "e >= g" for a max needs one argument >= g, for a min all of them; for an affine e it is one LP,
-  whose dual multipliers are the Farkas certificate.
+- "e >= g" for a max needs one argument >= g, for a min all of them; for an affine e it is the
+  affine fact e - g >= 0 on the cell, decided exactly by a sign check on the cell's generators
+  (lp_vertices.Cone) while splitting, and certified by Farkas multipliers once the cell is final
+  (with_certificates).
 The argument chosen is the one active at the cell's interior point z (ties: each tied candidate is
-tried).  When a needed LP fails, the difference d = e - g is >= 0 at z and < 0 somewhere in the cell,
-so d takes both signs on the cell's relative interior: splitting by d = 0 leaves two non-empty cells
-of the same dimension, and d never splits a descendant again (termination).
+tried).  When a needed fact fails, the difference d = e - g is >= 0 at z and < 0 somewhere in the
+cell, so d takes both signs on the cell's relative interior: splitting by d = 0 leaves two non-empty
+cells of the same dimension, and d never splits a descendant again (termination).
 
 Proofs are plain frozen dataclasses referring to atoms by index; a child cell keeps its parent's
-atoms as a prefix, so proofs found on a parent stay valid on its children (the memo is inherited).
+atoms as a prefix, so proofs found on a parent stay valid on its children (the memo is inherited,
+keyed by node numbers that are the same in every process).
 """
 
 from __future__ import annotations

@@ -96,8 +96,9 @@ def _verdict(spec: Spec, options: Mapping, atoms, forms, pieces) -> CellVerdict:
 def finish_cell(cell: Cell, spec: Spec, options: Mapping, index: tuple[int, ...], ship: bool) -> Cell:
     """Decide the claim on a fresh cell and attach the CellVerdict as `cell.extra`.
 
-    `index[i]` is the target number of spec.exprs[i].  With `ship` (the cell travels back from a
-    worker) the proofs are dropped and certificates travel packed (see received_certificate)."""
+    `index[i]` is the target number of spec.exprs[i].  The uncertified proofs are dropped (the
+    certificate holds the certified ones); with `ship` (the cell travels back from a worker) the
+    certificate travels packed (see received_certificate)."""
     forms = tuple(cell.forms[i] for i in index)
     pieces = []
     for e, i in zip(spec.exprs, index):
@@ -109,14 +110,12 @@ def finish_cell(cell: Cell, spec: Spec, options: Mapping, index: tuple[int, ...]
     verdict = _verdict(spec, options, cell.atoms, forms, tuple(pieces) if pieces is not None else None)
     if options.get("smt_regimes") or verdict.status == UNKNOWN:
         verdict = _smt_cell(cell, spec, options, verdict)
-    if ship:
-        c = verdict.certificate
-        if c is not None:
-            memo: dict = {}
-            c = replace(c, exprs=(), pieces=tuple(pack(p, memo) for p in c.pieces),
-                        farkas=tuple(pack(f, memo) for f in c.farkas))
-        return replace(cell, proofs=(), extra=replace(verdict, certificate=c))
-    return replace(cell, extra=verdict)
+    if ship and verdict.certificate is not None:
+        c, memo = verdict.certificate, {}
+        c = replace(c, exprs=(), pieces=tuple(pack(p, memo) for p in c.pieces),
+                    farkas=tuple(pack(f, memo) for f in c.farkas))
+        verdict = replace(verdict, certificate=c)
+    return replace(cell, proofs=(), extra=verdict)
 
 
 def received_certificate(c: Certificate, exprs) -> Certificate:

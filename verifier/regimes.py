@@ -11,10 +11,9 @@ hyperplane h = 0 is normalised so that the coefficient of the alphabetically fir
 breakpoint therefore belongs to the interval on its right.  Overlapping region pieces are first made
 disjoint (a later piece loses what earlier pieces already cover).
 
-Parallelism: each pending cell is an independent task (`refine`, a bounded number of steps at a time)
-that any worker of a process pool can run; the set of cells does not depend on who runs what, and
-cells are finally sorted by their interior points, so the output is the same for any number of
-workers.
+Parallelism: each pending cell is an independent task (`refine`, for a bounded time at a time) that
+any worker of a process pool can run; the set of cells does not depend on who runs what, and cells
+are finally sorted by their interior points, so the output is the same for any number of workers.
 """
 
 from __future__ import annotations
