@@ -78,7 +78,10 @@ class Claim:
         if self.kind == "relation":
             return f"{self.lhs.text()} {self.rel} {self.rhs.text()}{where}"
         if self.kind == "within":
-            return f"|{self.lhs.text()} - {self.rhs.text()}| <= {_num(self.gap)}{where}"
+            rhs = self.rhs.text()
+            if not self.rhs.label and not _is_atomic(self.rhs.expr):
+                rhs = f"({rhs})"  # |W - (1 - alpha/2)|, not |W - 1 - alpha/2|
+            return f"|{self.lhs.text()} - {rhs}| <= {_num(self.gap)}{where}"
         if self.kind == "monotone":
             trend = "non-decreasing" if self.increasing else "non-increasing"
             return f"{self.lhs.text()} is {trend} in {self.param}{where}"
@@ -86,6 +89,14 @@ class Claim:
             fixed = ", ".join(f"{n} = {_num(v)}" for n, v in self.values)
             return f"{self.lhs.text()} with {fixed} equals {self.rhs.text()}{where}"
         return f"{self.lhs.text()} is symmetric in {self.swap[0]} and {self.swap[1]}{where}"
+
+
+def _is_atomic(e: Expr) -> bool:
+    """A single parameter or a non-negative number: safe after a minus sign without parentheses."""
+    from .expr import Affine
+    if not isinstance(e, Affine):
+        return False
+    return (not e.coeffs and e.const >= 0) or (not e.const and e.coeffs == ((e.coeffs[0][0], 1),))
 
 
 def _num(q: Fraction) -> str:
