@@ -20,7 +20,7 @@ from fractions import Fraction
 from typing import Mapping
 
 from .errors import InputError
-from .expr import Expr, abs_, add, evaluate, lift, param, params, rename, scale, substitute, to_text
+from .expr import Expr, Max, Min, abs_, add, evaluate, lift, param, params, rename, scale, substitute, to_text
 from .region import Atom, Polyhedron, Region
 from .smt import Query
 
@@ -74,12 +74,13 @@ class Claim:
 
     def text(self) -> str:
         """The statement in words, for reports."""
-        where = f" where {self.region.text()}"
+        where = f" where {self.region.text()}" if self.region != Region.everywhere() else ""
         if self.kind == "relation":
             return f"{self.lhs.text()} {self.rel} {self.rhs.text()}{where}"
         if self.kind == "within":
             rhs = self.rhs.text()
-            if not self.rhs.label and not _is_atomic(self.rhs.expr):
+            if not self.rhs.label and not _is_atomic(self.rhs.expr) and \
+                    not isinstance(self.rhs.expr, (Min, Max)):
                 rhs = f"({rhs})"  # |W - (1 - alpha/2)|, not |W - 1 - alpha/2|
             return f"|{self.lhs.text()} - {rhs}| <= {_num(self.gap)}{where}"
         if self.kind == "monotone":
