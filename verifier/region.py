@@ -214,7 +214,32 @@ def _single(atom: Atom):
     return name, -atom.form.const / c, c > 0
 
 
-def chain_items(atoms) -> list[tuple]:
+def _pairs_adjacent(atoms: list) -> list:
+    """Move the upper bound of a parameter right after its lower bound when each is unique, so that
+    `alpha < 1, alpha >= 2/3` displays as `2/3 <= alpha < 1` (display only: order changes)."""
+    bounds: dict[str, list] = {}
+    for a in atoms:
+        got = _single(a)
+        if got:
+            bounds.setdefault(got[0], []).append((got[2], a))
+    out, placed = [], set()
+    for a in atoms:
+        if a in placed:
+            continue
+        got = _single(a)
+        pair = bounds.get(got[0], []) if got else []
+        if len(pair) == 2 and pair[0][0] != pair[1][0]:
+            lo = pair[0][1] if pair[0][0] else pair[1][1]
+            hi = pair[1][1] if lo is pair[0][1] else pair[0][1]
+            out += [lo, hi]
+            placed.update((lo, hi))
+        else:
+            out.append(a)
+            placed.add(a)
+    return out
+
+
+def chain_items(atoms, reorder: bool = False) -> list[tuple]:
     """('eq', name, v) / ('chain', name, lo, lo_strict, hi, hi_strict) / ('atom', atom), in order.
 
     Only a lower bound directly followed by an upper bound on the same parameter becomes one chain
@@ -222,6 +247,8 @@ def chain_items(atoms) -> list[tuple]:
     the very same atoms in the same order, and nothing is ever hidden or merged.
     """
     atoms, items, i = list(atoms), [], 0
+    if reorder:
+        atoms = _pairs_adjacent(atoms)
     while i < len(atoms):
         got = _single(atoms[i])
         nxt = _single(atoms[i + 1]) if i + 1 < len(atoms) else None
@@ -242,10 +269,13 @@ def chain_items(atoms) -> list[tuple]:
     return items
 
 
-def constraint_text(atoms, notation: Notation = TEXT) -> str:
-    """'1/2 <= alpha < 2/3, gamma > alpha' in the given notation; `everywhere` with no atom."""
+def constraint_text(atoms, notation: Notation = TEXT, reorder: bool = False) -> str:
+    """'1/2 <= alpha < 2/3, gamma > alpha' in the given notation; `everywhere` with no atom.
+
+    `reorder` lets displays pair a parameter's bounds wherever they stand; without it the text parses
+    back to the same atoms in the same order."""
     nt, out = notation, []
-    for item in chain_items(atoms):
+    for item in chain_items(atoms, reorder):
         if item[0] == "atom":
             out.append(nt.atom(item[1]))
         elif item[0] == "eq":

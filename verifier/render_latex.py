@@ -103,7 +103,7 @@ def condition_latex(atoms) -> str:
     """Constraints with one-parameter bounds chained: 1/2 <= alpha < 2/3 in LaTeX."""
     notation = Notation(name=name_latex, number=number_latex, rel=LATEX_RELS.get, atom=atom_latex,
                         joiner=",\\ ", everywhere=r"\text{everywhere}")
-    return constraint_text(atoms, notation)
+    return constraint_text(atoms, notation, reorder=True)
 
 
 def regime_condition(row) -> str:

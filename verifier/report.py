@@ -166,7 +166,7 @@ def build_report(proofs, title: str = "", source: str = "", solver: str = "z3",
 
 def constraint_text(atoms: Sequence[Atom]) -> str:
     """'1/2 <= alpha < 2/3, gamma > alpha' (exact numbers); 'everywhere' when there is no atom."""
-    return region_constraint_text(atoms)
+    return region_constraint_text(atoms, reorder=True)
 
 
 # ---------------------------------------------------------------------------------------------
