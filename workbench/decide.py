@@ -46,16 +46,32 @@ def uncovered_point(region, cover, names, solver, timeout):
     return "sat", first.model
 
 
-def decide(case_claim, solver="z3", timeout=30.0, cross_check=False) -> Outcome:
-    out = Outcome(case_claim, PROVED)
+def coverage_gaps(case_claim, solver="z3", timeout=30.0) -> tuple[list, bool]:
+    """([(bound name, uncovered point)], whether some coverage question stayed unknown)."""
     claim = case_claim.claim
     names = case_claim.subclaims[0][1].params if case_claim.subclaims else claim.params
+    gaps, unknown = [], False
     for name, cover in case_claim.coverage:
         status, point = uncovered_point(witness_region(claim), cover, names, solver, timeout)
         if status == "sat":
-            out.uncovered.append((name, point))
+            gaps.append((name, point))
         elif status != "unsat":
-            out.status = UNKNOWN
+            unknown = True
+    return gaps, unknown
+
+
+def uncovered_note(gaps) -> str:
+    return "; ".join(f"not covered: no regime of '{n}' contains "
+                     + ", ".join(f"{k} = {v}" for k, v in p.items()) + " (a forgotten regime?)"
+                     for n, p in gaps)
+
+
+def decide(case_claim, solver="z3", timeout=30.0, cross_check=False) -> Outcome:
+    out = Outcome(case_claim, PROVED)
+    claim = case_claim.claim
+    out.uncovered, unknown = coverage_gaps(case_claim, solver, timeout)
+    if unknown:
+        out.status = UNKNOWN
     for label, sub in case_claim.subclaims:
         try:
             v = prove(sub, solver, timeout, cross_check)

@@ -8,6 +8,7 @@ failure sets -- in text, Markdown, LaTeX or exact JSON, all from one verifier.re
 from __future__ import annotations
 
 import os
+from dataclasses import replace
 import sys
 import tempfile
 from pathlib import Path
@@ -23,6 +24,7 @@ from verifier.report import Report, build_report, claim_report
 from . import verdict_text as vt
 from .casefile import load_case
 from .check_cmd import select
+from .decide import coverage_gaps, uncovered_note
 from .exit_codes import exit_code
 
 RENDERERS = {"text": render_text, "markdown": render_markdown, "latex": render_latex, "json": render_json}
@@ -60,6 +62,7 @@ def case_report(case, case_claims, solver="z3", timeout=30.0, cross_check=False,
     sections = []
     for cc in case_claims:
         got = 0
+        gaps, _ = coverage_gaps(cc, solver, timeout)
         for label, sub in cc.subclaims:
             try:
                 proof = prove_by_regimes(sub, solver, timeout, cross_check, workers,
@@ -68,7 +71,11 @@ def case_report(case, case_claims, solver="z3", timeout=30.0, cross_check=False,
                 if len(cc.subclaims) == 1:
                     raise
                 continue
-            sections.append(claim_report(proof, label, cc.expect))
+            section = claim_report(proof, label, cc.expect)
+            if gaps:  # the scheme says nothing somewhere in the claim's region: the claim fails there
+                section = replace(section, status="refuted",
+                                  detail="; ".join(x for x in (uncovered_note(gaps), section.detail) if x))
+            sections.append(section)
             got += 1
         if not got:
             raise RegionError(f"the region of claim '{cc.claim.name}' meets none of its regimes")
