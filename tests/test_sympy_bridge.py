@@ -86,3 +86,22 @@ def test_simple_piecewise_becomes_min_or_max():
 def test_from_sympy_refusals(x, cls, pattern):
     with pytest.raises(cls, match=pattern):
         from_sympy(x)
+
+
+def test_regime_report_as_sympy_piecewise_agrees_with_exact_evaluation():
+    # Reference library: sympy evaluates the exported Piecewise; the curve is the symmetric two-user IC
+    # curve of Etkin, Tse, Wang, IEEE Trans. IT 54(12), 2008 (from memory).
+    from verifier.claims import relation
+    from verifier.expr import param
+    from verifier.regime_proof import prove_by_regimes
+    from verifier.report import claim_report
+    from verifier.region import Region, atoms_of
+    alpha = param("alpha")
+    w = parse_expr("min(1, max(alpha/2, 1 - alpha/2), max(alpha, 1 - alpha))")
+    section = claim_report(prove_by_regimes(relation(w, "<=", 1, Region.of(*atoms_of(alpha, ">=", 0)))))
+    pw = section.to_sympy(0)
+    x = sympy.Symbol("alpha", real=True)
+    for k in range(0, 41):
+        q = sympy.Rational(k, 8)
+        exact = evaluate(w, {"alpha": Fraction(k, 8)})
+        assert pw.subs(x, q) == sympy.Rational(exact.numerator, exact.denominator)

@@ -87,6 +87,12 @@ class ClaimReport:
     seconds: float
     expect: str | None = None
 
+    def to_sympy(self, side: int = 0):
+        """One side as a sympy Piecewise over the regimes (for notebooks and further algebra)."""
+        from .sympy_bridge import piecewise_to_sympy
+        return piecewise_to_sympy([(r.sides[side].formula, [p.polyhedron.atoms for p in r.polytopes])
+                                   for r in self.regimes])
+
     @property
     def title(self) -> str:
         base = self.name or self.statement

@@ -60,6 +60,25 @@ def to_sympy(e: Expr, symbols: Mapping[str, sympy.Symbol] | None = None) -> symp
     return walk(e)
 
 
+def region_to_sympy(atoms, symbols: Mapping[str, sympy.Symbol] | None = None):
+    """A conjunction of atoms as a sympy boolean (And of exact relationals)."""
+    symbols = dict(symbols or {})
+    rels = [(sympy.StrictGreaterThan if a.strict else sympy.GreaterThan)(to_sympy(a.form, symbols), 0)
+            for a in atoms]
+    return sympy.And(*rels) if rels else sympy.true
+
+
+def piecewise_to_sympy(pieces, symbols: Mapping[str, sympy.Symbol] | None = None) -> sympy.Piecewise:
+    """sympy Piecewise from (expression, [conjunctions of atoms]) pairs, e.g. a regime report's
+    formulas; the regimes are disjoint, so the order of the pieces does not matter."""
+    symbols = dict(symbols or {})
+    args = []
+    for expr, conjunctions in pieces:
+        cond = sympy.Or(*(region_to_sympy(atoms, symbols) for atoms in conjunctions))
+        args.append((to_sympy(expr, symbols), cond))
+    return sympy.Piecewise(*args)
+
+
 def _describe(x) -> str:
     return f"'{x}' ({type(x).__name__})"
 
