@@ -86,8 +86,7 @@ def to_min_max(name: str, pieces: Sequence[Piece], domain: Region, solver="z3", 
             why = ("the regimes disagree on an overlap or the function jumps at a regime boundary"
                    if status.status == "sat" else "the solver could not confirm the conversion")
             point = ", ".join(f"{k} = {v}" for k, v in (status.model or {}).items())
-            raise InputError(f"'{name}': cannot use the regime-by-regime definition ({why}; "
-                             f"regime '{where}'{', near ' + point if point else ''})")
+            raise InputError(f"'{name}': {why}: regime '{where}'{', near ' + point if point else ''}")
     return candidate
 
 
@@ -99,6 +98,6 @@ def check_piecewise(name: str, pieces: Sequence[Piece], domain: Region, solver="
     try:
         expr, detail = to_min_max(name, pieces, domain, solver, timeout), ""
     except InputError as err:
-        expr, detail = None, err.message
+        expr, detail = None, err.message.removeprefix(f"'{name}': ")
     return PiecewiseCheck(name, covered, point if status == "sat" else None, expr, detail,
                           tuple(pieces))
