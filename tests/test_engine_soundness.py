@@ -8,7 +8,8 @@ from verifier import smt
 from verifier.claims import relation, violated_at, violation_query
 from verifier.errors import RegionError
 from verifier.expr import max_, min_, param
-from verifier.prove import PROVED, REFUTED, UNKNOWN, _combine, prove
+from verifier.prove import PROVED, REFUTED, UNKNOWN, prove
+from verifier.verdicts import backends
 from verifier.region import Region, atoms_of
 
 a, b = param("alpha"), param("beta")
@@ -44,15 +45,24 @@ def test_empty_region_is_an_input_error_not_a_vacuous_proof():
         prove(relation(a, "==", b, empty))
 
 
-def test_unknown_is_never_proved():
+def test_unknown_is_never_proved_even_beside_an_unsat():
     unknown = smt.Answer("unknown", "z3", detail="timeout")
-    assert _combine([unknown])[0] == UNKNOWN
-    assert _combine([unknown, smt.Answer("unsat", "cvc5")])[0] == PROVED
+    assert backends([unknown], {})[0] == UNKNOWN
+    # a cross-check asks for two proofs: one backend's unsat and the other's timeout is no proof
+    assert backends([unknown, smt.Answer("unsat", "cvc5")], {})[0] == UNKNOWN
 
 
-def test_solver_disagreement_is_unknown_and_loud():
-    status, _, detail = _combine([smt.Answer("unsat", "z3"), smt.Answer("sat", "cvc5", {"alpha": F(0)})])
-    assert status == UNKNOWN and "DISAGREE" in detail
+def test_solver_disagreement_with_a_bogus_model_is_unknown_and_loud():
+    sat = smt.Answer("sat", "cvc5", {"alpha": F(0)})
+    status, _, detail = backends([smt.Answer("unsat", "z3"), sat], {"cvc5": False})
+    assert status == UNKNOWN and "fails the exact re-check" in detail
+
+
+def test_disagreement_with_a_point_that_rechecks_is_a_loud_refutation():
+    # an exactly re-checked violating point is a fact; the backend that said unsat is wrong
+    sat = smt.Answer("sat", "cvc5", {"alpha": F(0)})
+    status, _, detail = backends([smt.Answer("unsat", "z3"), sat], {"cvc5": True})
+    assert status == REFUTED and "DISAGREE" in detail
 
 
 def test_model_failing_exact_recheck_becomes_unknown(monkeypatch):

@@ -31,7 +31,10 @@ def test_treating_interference_as_noise_fails_exactly_beyond_one_half():
         assert piece.polyhedron.contains({"alpha": x}) == (x > F(1, 2))
     assert rp.failure.share == F(1, 6)  # length (3/5 - 1/2) / (3/5), hand computation
     assert piece.worst_value == F(1, 5) and piece.worst_point == {"alpha": F(3, 5)} and piece.worst_attained
-    assert piece.small_point == {"alpha": F(3, 5)}  # smallest denominator in (1/2, 3/5]
+    assert F(1, 2) < piece.point["alpha"] < F(3, 5)   # a relative-interior point of the piece
+    # the first counterexample follows the ranking: strictly inside 0 < alpha < 3/5, then the
+    # smallest denominator: none of 1..6 has a multiple of 1/d in (1/2, 3/5); 4/7 does
+    assert rp.counterexamples[0].point == {"alpha": F(4, 7)} and rp.counterexamples[0].strictly_inside
     assert all(violated_at(rp.claim, x.point) for x in rp.counterexamples)
 
 

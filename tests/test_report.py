@@ -67,7 +67,8 @@ def test_every_format_lists_the_same_counterexample(relay_report):
 def test_json_round_trips_exactly(relay_report):
     data = json.loads(render_json(relay_report))
     assert data["schema"] == "gdof-report" and data["caution"] == relay_report.caution
-    wrong = data["claims"][1]
+    assert data["claims"][1]["status"] == relay_report.claims[1].status
+    (wrong,) = data["claims"][1]["parts"]
     sec = relay_report.sections[1]
     for got, cex in zip(wrong["counterexamples"], sec.counterexamples):
         assert {k: fraction(v) for k, v in got["point"].items()} == dict(cex.point)

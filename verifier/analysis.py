@@ -64,11 +64,14 @@ class Gap:
     regime: int | None
 
 
-def max_gap(regimes: Sequence, names: Sequence[str], sign: int = 1) -> Gap:
-    """sup of sign * (L - R) over all cells of all regimes (regimes carry `cells` with `forms`)."""
+def max_gap(regimes: Sequence, names: Sequence[str], sign: int = 1, budget=None) -> Gap:
+    """sup of sign * (L - R) over all cells of all regimes (regimes carry `cells` with `forms`).
+    `budget` (verifier.budget.Budget) is checked once per regime."""
     direction = "lhs - rhs" if sign > 0 else "rhs - lhs"
     best = None
     for r in regimes:
+        if budget is not None:
+            budget.check("largest gap")
         for cell in r.cells:
             diff = scale(sign, add(r.forms[0], scale(-1, r.forms[1])))
             res = maximize(diff, cell.atoms, names)

@@ -9,7 +9,9 @@ Kinds and their violations (R is the claim's region):
 - relation `lhs REL rhs`:         x in R and not (lhs(x) REL rhs(x))
 - within c:  |lhs - rhs| <= c:     x in R and |lhs(x) - rhs(x)| > c
 - monotone in p (non-decreasing): x, x' in R, x' = x except p' > p, f(x') < f(x)  (non-increasing: >)
-- reduces-to under p = v, ...:     x in R|p=v and lhs|p=v (x) != rhs(x)
+- reduces-to under p = v, ...:     x in R with p = v and lhs(x) != rhs(x): both sides are read on
+                                  the slice p = v of R (a right side that mentions p is evaluated at
+                                  p = v too), so a counterexample is a point of R itself
 - symmetric in (p, q):            x in R and f(x) != f(x with p and q swapped)
 """
 
@@ -181,7 +183,8 @@ def compared_exprs(claim: Claim) -> tuple[Expr, Expr]:
     if claim.kind == "monotone":
         return claim.lhs.expr, rename(claim.lhs.expr, {claim.param: primed(claim.param)})
     if claim.kind == "reduces-to":
-        return substitute(claim.lhs.expr, dict(claim.values)), claim.rhs.expr
+        fixed = dict(claim.values)
+        return substitute(claim.lhs.expr, fixed), substitute(claim.rhs.expr, fixed)
     p, q = claim.swap
     return claim.lhs.expr, rename(claim.lhs.expr, {p: q, q: p})
 
@@ -228,9 +231,41 @@ def _holds(a: Fraction, rel: str, b: Fraction) -> bool:
     return {"<": a < b, "<=": a <= b, "==": a == b, "!=": a != b, ">=": a >= b, ">": a > b}[rel]
 
 
+def claim_points(claim: Claim, witness: Mapping[str, Fraction]) -> tuple[dict, ...]:
+    """The points of the claim's own parameter space that a witness stands for: one point (with the
+    fixed values of a reduces-to claim put back), or two for a monotone claim (before and after the
+    move in its parameter).  Each must lie in the claim's region for the witness to count."""
+    point = {k: Fraction(v) for k, v in witness.items()}
+    if claim.kind == "reduces-to":
+        for n, v in claim.values:
+            if n in point and point[n] != v:
+                return ()
+            point[n] = v
+        return (dict(sorted(point.items())),)
+    if claim.kind == "monotone":
+        p = claim.param
+        moved = point.pop(primed(p), None)
+        if moved is None:
+            return ()
+        return (dict(sorted(point.items())), dict(sorted({**point, p: moved}.items())))
+    return (dict(sorted(point.items())),)
+
+
+def witness_of(claim: Claim, point: Mapping[str, Fraction]) -> dict:
+    """The witness variables' values at a point of the claim space (drops fixed parameters)."""
+    fixed = dict(claim.values)
+    return {k: Fraction(v) for k, v in point.items() if k not in fixed}
+
+
 def violated_at(claim: Claim, point: Mapping[str, Fraction]) -> bool:
-    """Exact re-check: is `point` in the witness region and does the claim fail there?"""
-    if not witness_region(claim).contains(point):
+    """Exact re-check: does `point` violate the claim, with every point it stands for in the claim's
+    region?  `point` is a witness (solver model) or, for reduces-to, a point of the claim space that
+    includes the fixed values."""
+    points = claim_points(claim, point)
+    if not points or not all(claim.region.contains(x) for x in points):
         return False
-    return all(_holds(evaluate(l, point), r, evaluate(h, point))
-               for l, r, h in violation_conditions(claim))
+    w = witness_of(claim, point)
+    missing = [n for n in witness_names(claim) if n not in w]
+    if missing or not witness_region(claim).contains(w):
+        return False
+    return all(_holds(evaluate(l, w), r, evaluate(h, w)) for l, r, h in violation_conditions(claim))

@@ -8,10 +8,10 @@ disjoint because the cells are.
 
 For each failing polyhedron we report its dimension (a full-dimensional failure is robust; a face, a
 line or a point means the claim fails only on a boundary), a relative-interior point with small
-denominators, the point of largest violation (an exact LP over the closure, clipped to a user box when
-unbounded; 'attained' says whether the maximiser itself violates, or it is only a supremum), and
-optionally the point with the smallest common denominator (lattice search through the SMT backend,
-as in verifier.witness).
+denominators, and the point of largest violation (an exact LP over the closure, clipped to a user box
+when unbounded; 'attained' says whether the maximiser itself violates, or it is only a supremum).
+The smallest-denominator point of the whole failure set is verifier.witness's search, run once per
+claim (regime_witness), not per piece.
 """
 
 from __future__ import annotations
@@ -25,7 +25,6 @@ from .lp_shape import irredundant, nice_point, shape
 from .lp_volume import volume
 from .region import Atom, Polyhedron, Region
 from .regime_spec import Spec, obligations, violation_amount
-from .witness import DENOMINATORS
 
 
 @dataclass(frozen=True)
@@ -44,7 +43,6 @@ class FailurePiece:
     worst_value: Fraction | None
     worst_point: dict | None
     worst_attained: bool
-    small_point: dict | None = None
 
 
 @dataclass(frozen=True)
@@ -110,20 +108,6 @@ def _box_atoms(name, lo, hi):
     if hi is not None:
         out += atoms_of(param(name), "<=", hi)
     return out
-
-
-def smallest_denominator(atoms: Sequence[Atom], names: Sequence[str], bound: int,
-                         solver: str = "z3", timeout: float = 10.0) -> dict | None:
-    """A point of the polyhedron on the lattice (1/d) Z^n for the smallest d < bound, strictly
-    inside when possible; None when no such d exists below `bound`."""
-    from .smt import Query, check
-    poly = Polyhedron(tuple(atoms))
-    for region in (Region((poly.interior(),)), Region((poly,))):
-        for d in (d for d in DENOMINATORS if d < bound):
-            answer = check(Query(region, (), d, tuple(names)), solver, timeout)
-            if answer.status == "sat" and poly.contains(answer.model):
-                return dict(answer.model)
-    return None
 
 
 def denominator(point: Mapping[str, Fraction]) -> int:

@@ -34,7 +34,11 @@ class Piece:
 
 @dataclass(frozen=True)
 class PiecewiseCheck:
-    """Result of checking a regime-by-regime definition against the assumed region."""
+    """Result of checking a regime-by-regime definition against the assumed region.
+
+    `form`: 'proved' (expr is the verified min/max form), 'refuted' (the definition is provably not
+    one continuous function: a jump, or regimes disagreeing on an overlap) or 'unknown' (the solver
+    or the time budget could not decide; claims are then split regime by regime, which is exact)."""
 
     name: str
     covered: str                      # 'proved' | 'refuted' | 'unknown'
@@ -42,15 +46,25 @@ class PiecewiseCheck:
     expr: Expr | None                 # the equivalent min/max form, when it exists
     detail: str = ""                  # why there is no min/max form
     pieces: tuple[Piece, ...] = ()
+    form: str = "proved"
 
 
-def _feasible(query: Query, solver: str, timeout: float) -> str:
-    return check(query, solver, timeout).status
+class FormUndecided(Exception):
+    """The min/max form could be neither confirmed nor refuted (solver unknown, budget spent)."""
+
+
+def _feasible(query: Query, solver: str, timeout) -> str:
+    return check(query, solver, _seconds(timeout)).status
+
+
+def _seconds(timeout) -> float:
+    """A per-query timeout from a number or a verifier.budget.Budget (which raises when spent)."""
+    return timeout.timeout("regime-wise definitions") if hasattr(timeout, "timeout") else timeout
 
 
 def uncovered_point(pieces: Sequence[Piece], domain: Region, solver="z3", timeout=30.0):
     """('unsat', None) if the regimes cover the domain, else ('sat', point) or ('unknown', None)."""
-    answer = check(Query(domain, outside=tuple(p.where for p in pieces)), solver, timeout)
+    answer = check(Query(domain, outside=tuple(p.where for p in pieces)), solver, _seconds(timeout))
     return answer.status, answer.model
 
 
@@ -80,24 +94,36 @@ def to_min_max(name: str, pieces: Sequence[Piece], domain: Region, solver="z3", 
     candidate = max_(*(min_(*_dominating(i, live, domain, solver, timeout)) for i in range(len(live))))
     for p in live:
         wrong = Query(domain.meet(p.where), ((candidate, "!=", p.formula),))
-        status = check(wrong, solver, timeout)
-        if status.status != "unsat":
-            where = p.where.text()
-            why = ("the regimes disagree on an overlap or the function jumps at a regime boundary"
-                   if status.status == "sat" else "the solver could not confirm the conversion")
-            point = ", ".join(f"{k} = {v}" for k, v in (status.model or {}).items())
-            raise InputError(f"'{name}': {why}: regime '{where}'{', near ' + point if point else ''}")
+        status = check(wrong, solver, _seconds(timeout))
+        if status.status == "unknown":
+            raise FormUndecided(f"'{name}': the solver could not confirm that the regimes form one "
+                                f"continuous function ({status.detail})")
+        if status.status == "sat":
+            raise InputError(f"'{name}': the regimes disagree on an overlap or the function jumps at a "
+                             f"regime boundary: regime '{p.where.text()}' (its formula differs from the "
+                             "other regimes' values there)")
     return candidate
 
 
 def check_piecewise(name: str, pieces: Sequence[Piece], domain: Region, solver="z3",
                     timeout=30.0) -> PiecewiseCheck:
-    """Coverage verdict plus the min/max form when the regimes define one continuous function."""
-    status, point = uncovered_point(pieces, domain, solver, timeout)
+    """Coverage verdict plus the min/max form when the regimes define one continuous function.
+
+    `timeout`: seconds per query, or a verifier.budget.Budget bounding the whole check."""
+    from .budget import Budget, OutOfBudget
+    if not hasattr(timeout, "timeout"):   # one clock for the whole definition, not per query only
+        timeout = Budget(query_timeout=timeout)
+    form = "proved"
+    try:
+        status, point = uncovered_point(pieces, domain, solver, timeout)
+    except OutOfBudget:
+        status, point = "unknown", None
     covered = {"unsat": "proved", "sat": "refuted"}.get(status, "unknown")
     try:
         expr, detail = to_min_max(name, pieces, domain, solver, timeout), ""
+    except (FormUndecided, OutOfBudget) as exc:
+        expr, detail, form = None, str(exc).removeprefix(f"'{name}': "), "unknown"
     except InputError as err:
-        expr, detail = None, err.message.removeprefix(f"'{name}': ")
+        expr, detail, form = None, err.message.removeprefix(f"'{name}': "), "refuted"
     return PiecewiseCheck(name, covered, point if status == "sat" else None, expr, detail,
-                          tuple(pieces))
+                          tuple(pieces), form)

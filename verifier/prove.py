@@ -1,25 +1,28 @@
-"""Decide one claim: proved, refuted (with a counterexample) or unknown.
+"""Decide one claim with the one-shot query: proved, refuted (with a counterexample) or unknown.
 
 The order of work is the soundness argument:
-1. an empty region is bad input, not a vacuous proof;
-2. the violation query goes to the solver; only 'unsat' can become 'proved';
-3. a 'sat' model is re-evaluated exactly; a model that does not really violate the claim makes the
-   verdict 'unknown' (a solver bug must never turn into a refutation either);
-4. in cross-check mode both backends answer; sat against unsat is a loud disagreement and the verdict
-   is 'unknown'.
+1. an empty region is bad input, not a vacuous proof (and a region whose emptiness the solver cannot
+   decide is no proof either);
+2. the violation query goes to the solver(s); only 'unsat' from every backend asked can become
+   'proved' (verifier.verdicts, rule 2);
+3. a 'sat' model is re-evaluated exactly, in the claim's own region; a model that does not really
+   violate the claim never becomes a refutation (a solver bug must not turn into one either);
+4. the counterexample shown is chosen by the one ranking of verifier.witness;
+5. all of it runs inside the claim's Budget: running out is 'unknown' naming the stage.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Sequence
 
+from .budget import Budget, OutOfBudget
 from .claims import Claim, violated_at, violation_query, witness_region
 from .errors import RegionError
 from .smt import Answer, Query, check
-from .witness import Counterexample, best_counterexample
+from .verdicts import PROVED, REFUTED, UNKNOWN, backends
+from .witness import Counterexample, best_counterexample, describe
 
-PROVED, REFUTED, UNKNOWN = "proved", "refuted", "unknown"
+__all__ = ["PROVED", "REFUTED", "UNKNOWN", "Verdict", "prove", "ensure_nonempty"]
 
 
 @dataclass(frozen=True)
@@ -32,48 +35,54 @@ class Verdict:
     seconds: float = 0.0
     answers: tuple[Answer, ...] = field(default=())
 
+    def __str__(self) -> str:
+        head = f"{self.claim.name + ': ' if self.claim.name else ''}{self.status}: {self.claim.text()}"
+        if self.counterexample is not None:
+            head += f"\n  counterexample: {self.counterexample}"
+        if self.detail:
+            head += f"\n  note: {self.detail}"
+        return head
 
-def ensure_nonempty(claim: Claim, solver: str = "z3", timeout: float = 30.0) -> None:
-    """Raise RegionError when the claim's region has no point (a typo like alpha > 1, alpha < 0)."""
-    answer = check(Query(witness_region(claim), (), None, claim.params), solver, timeout)
+
+def ensure_nonempty(claim: Claim, solver: str = "z3", timeout: float = 30.0,
+                    budget: Budget | None = None) -> str:
+    """Raise RegionError when the claim's region has no point (a typo like alpha > 1, alpha < 0).
+
+    Returns the solver's status ('sat', or 'unknown' when it could not tell)."""
+    budget = Budget.of(budget, timeout)
+    region = witness_region(claim)
+    answer = check(Query(region, (), None, claim.params), solver, budget.timeout("region check"))
     if answer.status == "unsat":
         where = claim.name or claim.text()
-        raise RegionError(f"the region '{witness_region(claim).text()}' of claim '{where}' is empty")
-
-
-def _combine(answers: Sequence[Answer]) -> tuple[str, Answer | None, str]:
-    statuses = {a.solver: a.status for a in answers}
-    if "sat" in statuses.values() and "unsat" in statuses.values():
-        said = ", ".join(f"{s} says {v}" for s, v in statuses.items())
-        return UNKNOWN, None, f"SOLVERS DISAGREE ({said}); treat as unknown and report it"
-    for a in answers:
-        if a.status == "unsat":
-            return PROVED, a, ""
-    for a in answers:
-        if a.status == "sat":
-            return REFUTED, a, ""
-    return UNKNOWN, None, "; ".join(a.detail for a in answers if a.detail) or "no decisive answer"
+        raise RegionError(f"the region '{region.text()}' of claim '{where}' is empty")
+    return answer.status
 
 
 def prove(claim: Claim, solver: str = "z3", timeout: float = 30.0, cross_check: bool = False,
-          improve_witness: bool = True) -> Verdict:
-    """The verdict on one claim; see the module docstring for why each step is there."""
-    ensure_nonempty(claim, solver, timeout)
+          improve_witness: bool = True, budget: Budget | None = None) -> Verdict:
+    """The verdict on one claim; see the module docstring for why each step is there.
+
+    `budget` is the claim's whole time (default: a fresh Budget with `timeout` per query)."""
+    budget = Budget.of(budget, timeout)
     solvers = ("z3", "cvc5") if cross_check else (solver,)
-    answers = tuple(check(violation_query(claim), s, timeout) for s in solvers)
-    status, decisive, detail = _combine(answers)
+    answers: list[Answer] = []
+    try:
+        region_status = ensure_nonempty(claim, solvers[0], timeout, budget)
+        query = violation_query(claim)
+        for s in solvers:
+            answers.append(check(query, s, budget.timeout("solver query")))
+    except OutOfBudget as exc:
+        return Verdict(claim, UNKNOWN, "+".join(solvers), None, str(exc), budget.spent(), tuple(answers))
+    rechecks = {a.solver: a.status == "sat" and violated_at(claim, a.model) for a in answers}
+    status, decisive, detail = backends(answers, rechecks)
+    if status == PROVED and region_status != "sat":
+        status, detail = UNKNOWN, "the solver could not decide whether the region is empty"
     seconds = sum(a.seconds for a in answers)
     used = decisive.solver if decisive else "+".join(solvers)
     if status != REFUTED:
-        return Verdict(claim, status, used, None, detail, seconds, answers)
-    if not violated_at(claim, decisive.model):
-        return Verdict(claim, UNKNOWN, used, None,
-                       f"{used} returned a model that fails the exact re-check: {dict(decisive.model)}",
-                       seconds, answers)
+        return Verdict(claim, status, used, None, detail, seconds, tuple(answers))
     if improve_witness:
-        cex = best_counterexample(claim, decisive.model, decisive.solver, min(timeout, 10.0))
+        cex = best_counterexample(claim, decisive.model, decisive.solver, budget)
     else:
-        from .witness import describe
-        cex = describe(claim, decisive.model, witness_region(claim).relative_interior().contains(decisive.model),
-                       "solver model")
-    return Verdict(claim, REFUTED, used, cex, detail, seconds, answers)
+        cex = describe(claim, decisive.model, "solver model")
+    return Verdict(claim, REFUTED, used, cex, detail, budget.spent(), tuple(answers))

@@ -4,12 +4,16 @@ Pipeline: spec (regime_spec) -> cells (regimes.decompose), each decided and cert
 that found it (regime_work.finish_cell; a process pool when workers > 1) -> regimes (cells grouped by
 their affine formulas and active named parts, presented as one polytope per region piece when their
 union is convex) -> thresholds, failure region, best counterexamples, bound analysis, maximum gaps ->
-a cross-check against the one-shot SMT proof (verifier.prove).  `timing` has the seconds spent in
-'decompose' (with the per-cell verdicts), 'regimes', 'analysis', 'smt' and 'total'.
+the one-shot SMT proof (verifier.prove) as a second, independent method, run first with a quarter
+of the claim's budget.  `timing` has the seconds spent in 'smt', 'decompose' (with the per-cell
+verdicts), 'regimes', 'analysis' and 'total'.
 
-Overall status: 'proved' only if every regime is proved and certified (or decided by SMT), 'refuted' if
-any regime fails, else 'unknown'.  If the regime method and the one-shot SMT verdict are both decisive
-and differ, the status is 'unknown' and `detail` says METHODS DISAGREE.
+Overall status: the region-wise method says 'proved' only if every regime is proved and certified
+(or decided by SMT), 'refuted' if a regime fails at a point that re-checks exactly, else 'unknown';
+the two methods are then combined by verifier.verdicts (rule 3: one complete proof suffices, a
+re-checked refutation beats a proof and a disagreement is loud).  Running out of the budget while
+splitting leaves the one-shot verdict alone; running out during the analysis (thresholds, gaps)
+leaves the verdicts as they are and says which analysis is missing.
 
 Monotone claims: on each cell f is affine, and (f continuous, being built from min/max of affine
 functions) f is non-decreasing along p on a convex region iff the p-coefficient of f is >= 0 on
@@ -30,7 +34,8 @@ from functools import partial
 from typing import Callable, Mapping
 
 from .analysis import Gap, PartReport, max_gap, part_reports
-from .claims import Claim
+from .budget import Budget, OutOfBudget
+from .claims import Claim, witness_of
 from .errors import RegionError
 from .failure import FailureRegion, failure_region
 from .lp_shape import reduce_modulo
@@ -42,7 +47,8 @@ from .regimes import decompose, disjoint_pieces
 from .regimes import worker_setup as regimes_worker_setup
 from .thresholds import Threshold, thresholds
 from .regime_witness import counterexamples
-from .witness import Counterexample
+from .verdicts import methods, overall
+from .witness import Counterexample, best_counterexample
 
 
 @dataclass(frozen=True)
@@ -125,67 +131,137 @@ def _nice(poly, names):
 
 def _worker_setup(spec, tgts, options, index):
     regimes_worker_setup(tgts, spec.names, partial(finish_cell, spec=spec, options=options, index=index,
-                                                   ship=True))
+                                                   ship=True), options.get("budget"))
 
 
 def prove_by_regimes(claim: Claim, solver: str = "z3", timeout: float = 30.0, cross_check: bool = False,
                      workers: int = 1, progress: Callable[[str, int, int], None] | None = None,
                      box: Mapping[str, tuple] | None = None, smt: str = "claim",
-                     improve_witness: bool = True) -> RegimeProof:
+                     improve_witness: bool = True, budget: Budget | None = None) -> RegimeProof:
     """Decide `claim` regime by regime (see the module docstring).
 
-    smt: 'claim' (one one-shot cross-check, default), 'regimes' (also each cell separately), or
-    'none'.  box: {name: (lo, hi)} clips unbounded failure sets when locating the worst violation.
-    progress(stage, done, total) is called as cells are found and decided ('cells')."""
+    smt: 'claim' (the one-shot query as a second method, default), 'regimes' (also each cell
+    separately), or 'none'.  box: {name: (lo, hi)} clips unbounded failure sets when locating the
+    worst violation.  progress(stage, done, total) is called as cells are found and decided.
+    budget: the claim's whole time (verifier.budget); the one-shot query may use a quarter of it, the
+    regions the rest; running out is reported in `detail` and never turns into 'proved'."""
+    budget = Budget.of(budget, timeout)
     clock = {"start": time.perf_counter()}
     spec = spec_of(claim)
     pieces = disjoint_pieces(spec.region, spec.names)
     if not pieces:
         raise RegionError(f"the region '{spec.region.text()}' of claim '{claim.name or claim.text()}' is empty")
+    verdict = None
+    if smt != "none":
+        verdict = prove(claim, solver, timeout, cross_check, improve_witness=False, budget=budget.share(0.25))
+    clock["smt"] = time.perf_counter()
     tgts = targets(spec)
     index = tuple(next(i for i, t in enumerate(tgts) if t.key == e.key) for e in spec.exprs)
-    options = {"box": box, "improve_witness": improve_witness, "solver": solver,
-               "timeout": min(timeout, 10.0), "smt_regimes": smt == "regimes", "claim": claim}
+    options = {"box": box, "solver": solver, "budget": budget, "smt_regimes": smt == "regimes",
+               "claim": claim}
     pool = ProcessPoolExecutor(max_workers=workers, initializer=_worker_setup,
                                initargs=(spec, tgts, options, index)) if workers > 1 else None
     try:
         finish = partial(finish_cell, spec=spec, options=options, index=index, ship=False)
-        cells = decompose(tgts, spec.region, spec.names, pool, progress, finish=finish)
+        cells = decompose(tgts, spec.region, spec.names, pool, progress, finish=finish, budget=budget)
         clock["decompose"] = time.perf_counter()
         regimes = _regimes(spec, cells, tgts, pieces, pool)
+        budget.check("regime grouping")
+    except OutOfBudget as exc:
+        if pool is not None:
+            pool.shutdown(wait=True, cancel_futures=True)
+            pool = None
+        return _without_regimes(claim, spec, verdict, exc, clock, solver, budget, workers, improve_witness)
     finally:
         if pool is not None:
             pool.shutdown()
     clock["regimes"] = time.perf_counter()
-    return _assemble(claim, spec, pieces, cells, regimes, clock, solver, timeout, cross_check, smt, workers)
+    return _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, workers, budget,
+                     improve_witness)
 
 
-def _assemble(claim, spec, pieces, cells, regimes, clock, solver, timeout, cross_check, smt, workers):
-    ths = thresholds(regimes, spec.names)
+def _without_regimes(claim, spec, verdict, exc, clock, solver, budget, workers, improve_witness):
+    """The region-wise proof ran out of time: the one-shot verdict stands alone (rule 3)."""
+    status, note = methods(("the region-wise proof", UNKNOWN),
+                           ("the one-shot query", verdict.status if verdict else UNKNOWN),
+                           verdict is not None and verdict.status == REFUTED)
+    cexs = ()
+    if verdict is not None and verdict.status == REFUTED and verdict.counterexample is not None:
+        model = witness_of(claim, verdict.counterexample.point)
+        cexs = (best_counterexample(claim, model, verdict.solver, budget) if improve_witness
+                else verdict.counterexample,)
+    detail = "; ".join(x for x in (f"region-wise proof incomplete: {exc}", note,
+                                   f"verdict from {verdict.solver}" if verdict and status != UNKNOWN else "")
+                       if x)
+    for k in ("decompose", "regimes", "analysis"):
+        clock.setdefault(k, time.perf_counter())
+    return RegimeProof(claim, status, "smt", spec.names, spec.labels, (), (), None, cexs, (), (), verdict,
+                       None, detail, _timing(clock), 0, workers)
+
+
+def _analyse(budget, notes, stage, default, work):
+    """One analysis stage; running out of time leaves `default` and a note (verdicts unaffected)."""
+    if notes:
+        return default
+    try:
+        budget.check(stage)
+        return work()
+    except OutOfBudget as exc:
+        notes.append(f"analysis incomplete: {exc}")
+        return default
+
+
+def _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, workers, budget, improve_witness):
+    notes: list[str] = []
+    compare = spec.kind == "compare"
+    ths = _analyse(budget, notes, "thresholds", (), lambda: thresholds(regimes, spec.names, budget))
     fails = [p for r in regimes for p in r.failures]
-    failure = failure_region(fails, pieces, spec.names) if spec.kind == "compare" else None
-    cexs = counterexamples(claim, spec, regimes)
+    failure = _analyse(budget, notes, "failure region", None,
+                       lambda: failure_region(fails, pieces, spec.names)) if compare else None
     parts = part_reports(tuple(dict.fromkeys((s, n) for s, n, _ in spec.parts)), regimes)
-    gaps = (max_gap(regimes, spec.names, 1), max_gap(regimes, spec.names, -1)) \
-        if spec.kind == "compare" else ()
+    gaps = _analyse(budget, notes, "largest gap", (), lambda: (max_gap(regimes, spec.names, 1, budget),
+                                                               max_gap(regimes, spec.names, -1, budget))) \
+        if compare else ()
+    try:
+        cexs = counterexamples(claim, spec, regimes, solver, budget, improve_witness)
+    except OutOfBudget as exc:
+        notes.append(f"counterexample ranking incomplete: {exc}")
+        cexs = counterexamples(claim, spec, regimes, solver, budget, improve=False)
     clock["analysis"] = time.perf_counter()
     status, method, detail = _regime_status(spec, regimes, pieces)
-    verdict, agree = None, None
-    if smt != "none" or method == "smt":
-        verdict = prove(claim, solver, timeout, cross_check, improve_witness=False)
-        status, agree, detail = _combine(status, method, verdict, detail)
-        if status == REFUTED and not cexs and verdict.counterexample is not None:
-            cexs = (verdict.counterexample,)
-    clock["smt"] = time.perf_counter()
+    if status == REFUTED and not cexs:
+        status, detail = UNKNOWN, "regimes fail but no failing point re-checks exactly: an engine defect"
+    agree = None
+    if verdict is not None:
+        smt_refutes = verdict.status == REFUTED
+        combined, note = methods(("the region-wise proof", status), ("the one-shot query", verdict.status),
+                                 True)
+        decisive = {PROVED, REFUTED}
+        agree = (status == verdict.status) if status in decisive and verdict.status in decisive else None
+        if method == "smt" or status == UNKNOWN:
+            detail = "; ".join(x for x in (detail, f"verdict from {verdict.solver}") if x)
+        status = combined
+        detail = "; ".join(x for x in (detail, note) if x)
+        if status == REFUTED and not cexs and smt_refutes and verdict.counterexample is not None:
+            model = witness_of(claim, verdict.counterexample.point)
+            cexs = (best_counterexample(claim, model, verdict.solver, budget) if improve_witness
+                    else verdict.counterexample,)
+    elif method == "smt":
+        status = UNKNOWN
+    detail = "; ".join(x for x in [detail] + notes if x)
+    clock.setdefault("smt", clock["analysis"])
     timing = _timing(clock)
     return RegimeProof(claim, status, method, spec.names, spec.labels, regimes, ths, failure, cexs,
                        parts, gaps, verdict, agree, detail, timing, len(cells), workers)
 
 
 def _timing(clock):
-    order = ["start", "decompose", "regimes", "analysis", "smt"]
-    out = {b: clock[b] - clock[a] for a, b in zip(order, order[1:])}
-    out["total"] = clock["smt"] - clock["start"]
+    out = {"smt": clock.get("smt", clock["start"]) - clock["start"]}
+    out["decompose"] = clock.get("decompose", clock["start"]) - clock.get("smt", clock["start"])
+    out["regimes"] = clock.get("regimes", clock.get("decompose", clock["start"])) - clock.get("decompose", clock["start"])
+    last = max(clock.values())
+    out["analysis"] = clock.get("analysis", last) - clock.get("regimes", last)
+    out["total"] = last - clock["start"]
     return out
 
 
@@ -200,17 +276,5 @@ def _regime_status(spec, regimes, pieces):
         return REFUTED, "regimes", loud
     if spec.kind == "monotone" and not region_is_convex(pieces, spec.names):
         return UNKNOWN, "smt", "monotone on a non-convex region: slopes do not decide it"
-    if all(s == PROVED for s in statuses):
-        return PROVED, "regimes", loud
-    return UNKNOWN, "regimes", loud or "some regimes are undecided"
-
-
-def _combine(status, method, verdict, detail):
-    if method == "smt" or status == UNKNOWN:
-        return verdict.status, None, (detail + "; " if detail else "") + f"verdict from {verdict.solver}"
-    if verdict.status == UNKNOWN:
-        return status, None, detail
-    if verdict.status != status:
-        return UNKNOWN, False, (f"METHODS DISAGREE: regimes say {status}, {verdict.solver} says "
-                                f"{verdict.status}; treat as unknown and report it")
-    return status, True, detail
+    status = overall(statuses)
+    return status, "regimes", loud or ("" if status == PROVED else "some regimes are undecided")

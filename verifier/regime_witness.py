@@ -1,9 +1,11 @@
 """Counterexamples from the regime method: exact points of the failure set, best first.
 
 Why not just the solver model: the failure set is known exactly, so we can offer its nice interior
-points (small denominators, strictly inside), the smallest-denominator lattice points found per piece,
-and the points of largest violation; full-dimensional failures come first (they are robust), then
-smaller denominators.  Every point is re-checked with claims.violated_at before it is returned.
+points, the smallest-denominator lattice points found per piece, and the points of largest violation.
+They are ordered by the one ranking of verifier.witness (inside first, then smallest common
+denominator, then smallest magnitude), and the first is the point of the same search `gdof check`
+runs, so both commands print the same first counterexample.  Every point is re-checked with
+claims.violated_at (which also requires the claim's own region) before it is returned.
 For a monotone claim the witness is a pair of points of a failing cell, apart only in the parameter.
 """
 
@@ -11,39 +13,43 @@ from __future__ import annotations
 
 from fractions import Fraction
 
-from .claims import Claim, violated_at, witness_region
+from .claims import Claim, violated_at, witness_of
 from .failure import denominator
 from .regime_spec import Spec
-from .witness import Counterexample, describe
+from .witness import Counterexample, best_counterexample, describe
 
 REFUTED = "refuted"
 
 
-def counterexamples(claim: Claim, spec: Spec, regimes) -> tuple[Counterexample, ...]:
-    """Best first: full-dimensional failures, then small denominators; every one re-checked."""
-    out = []
+def counterexamples(claim: Claim, spec: Spec, regimes, solver: str = "z3", budget=None,
+                    improve: bool = True) -> tuple[Counterexample, ...]:
+    """Every re-checked counterexample, best first by the ranking of verifier.witness; the first is
+    the one `gdof check` prints (the same search, started from a point of the failure set)."""
+    found = []
     for r in regimes:
         if r.status != REFUTED:
             continue
         if spec.kind == "monotone":
             point = _monotone_pair(spec, r)
             if point is not None:
-                out.append((0, 1, describe(claim, point, witness_region(claim).interior().contains(point),
-                                           f"slope {r.forms[0].coeff(spec.param)} in regime {r.index}")))
+                found.append(describe(claim, point, f"slope {r.forms[0].coeff(spec.param)} in regime {r.index}"))
             continue
         for piece in r.failures:
-            point = piece.small_point or piece.point
-            origin = "smallest denominator" if piece.small_point else "nice interior point"
-            cex = describe(claim, point, witness_region(claim).interior().contains(point),
-                           f"{origin} of a failure piece in regime {r.index}")
-            out.append((0 if piece.full_dimensional else 1, _den(point), cex))
+            found.append(describe(claim, piece.point, f"nice interior point of a failure piece in regime {r.index}"))
             if piece.worst_attained and piece.worst_point is not None:
-                worst = describe(claim, piece.worst_point,
-                                 witness_region(claim).interior().contains(piece.worst_point),
-                                 f"largest violation ({piece.worst_value}) in regime {r.index}")
-                out.append((0 if piece.full_dimensional else 1, _den(piece.worst_point) + 10 ** 6, worst))
-    good = [c for _, _, c in sorted(out, key=lambda t: (t[0], t[1])) if violated_at(claim, c.point)]
-    return tuple(good)
+                found.append(describe(claim, piece.worst_point,
+                                      f"largest violation ({piece.worst_value}) in regime {r.index}"))
+    found = [c for c in found if violated_at(claim, c.point)]
+    if found and improve:
+        first = min(found, key=lambda c: c.rank())
+        found.insert(0, best_counterexample(claim, witness_of(claim, first.point), solver, budget))
+    out, seen = [], set()
+    for c in sorted(found, key=lambda c: c.rank()):   # stable: the searched point first among equals
+        key = tuple(sorted(c.point.items()))
+        if key not in seen and violated_at(claim, c.point):
+            seen.add(key)
+            out.append(c)
+    return tuple(out)
 
 
 def _den(point):

@@ -20,7 +20,7 @@ from typing import Mapping
 from .cell_proof import with_certificates
 from .certificates import Certificate, certify, check_certificate, pack, unpack
 from .expr import Affine
-from .failure import FailurePiece, denominator, failure_piece, smallest_denominator, violations
+from .failure import FailurePiece, failure_piece, violations
 from .regime_geometry import Polytope
 from .regime_spec import Spec
 from .regimes import Cell
@@ -81,16 +81,8 @@ def _verdict(spec: Spec, options: Mapping, atoms, forms, pieces) -> CellVerdict:
     bad = violations(spec, atoms, forms, names)
     if not bad:
         return CellVerdict(UNKNOWN, None, ())  # no certificate yet no violation: should not happen
-    found = []
-    for ob, poly in bad:
-        piece = failure_piece(spec, -1, ob, poly, forms, names, options.get("box"))
-        if options.get("improve_witness") and spec.kind == "compare":
-            bound = denominator(piece.point)
-            small = smallest_denominator(piece.polyhedron.atoms, names, bound, options.get("solver", "z3"),
-                                         options.get("timeout", 10.0)) if bound > 1 else None
-            piece = replace(piece, small_point=small)
-        found.append(piece)
-    return CellVerdict(REFUTED, None, tuple(found))
+    found = tuple(failure_piece(spec, -1, ob, poly, forms, names, options.get("box")) for ob, poly in bad)
+    return CellVerdict(REFUTED, None, found)
 
 
 def finish_cell(cell: Cell, spec: Spec, options: Mapping, index: tuple[int, ...], ship: bool) -> Cell:
@@ -132,23 +124,30 @@ def _smt_cell(cell: Cell, spec: Spec, options: Mapping, verdict: CellVerdict) ->
     from .claims import violation_query
     from .region import Polyhedron, Region
     from .smt import check
+    from .budget import Budget
+    from .claims import violated_at
+    from .verdicts import methods
     claim = options.get("claim")
     if claim is None or spec.kind != "compare":
         return replace(verdict, smt="n/a")
+    budget = options.get("budget") or Budget()
     answer = check(violation_query(claim, Region((Polyhedron(cell.atoms),))), options.get("solver", "z3"),
-                   options.get("timeout", 30.0))
+                   budget.timeout("SMT per cell"))
     said = {"unsat": PROVED, "sat": REFUTED}.get(answer.status, UNKNOWN)
+    if said == REFUTED and not violated_at(claim, answer.model):
+        said = UNKNOWN
     if verdict.status == UNKNOWN:
+        if said == REFUTED:   # no failure polyhedron to show: keep the solver's (re-checked) point
+            return replace(verdict, status=UNKNOWN, smt=said,
+                           detail=f"{answer.solver} refutes this cell but no exact failure set was found")
         return replace(verdict, status=said, smt=said, detail=f"decided by {answer.solver} (no certificate)")
-    if said != UNKNOWN and said != verdict.status:
-        return replace(verdict, status=UNKNOWN, smt=said,
-                       detail=f"METHODS DISAGREE: regimes say {verdict.status}, {answer.solver} says {said}")
-    return replace(verdict, smt=said)
+    status, note = methods(("the cell's certificate", verdict.status), (answer.solver, said), True)
+    return replace(verdict, status=status, smt=said, detail=note)
 
 
 def _status(statuses) -> str:
-    statuses = set(statuses)
-    return REFUTED if REFUTED in statuses else (PROVED if statuses == {PROVED} else UNKNOWN)
+    from .verdicts import overall
+    return overall(statuses)
 
 
 def assemble(index: int, cells, polytopes, forms, active, exprs) -> Regime:

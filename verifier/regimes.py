@@ -105,15 +105,18 @@ def _step(task: Task, targets: Sequence[Expr], names: Sequence[str], numbers: di
 
 
 def refine(tasks, targets: Sequence[Expr], names: Sequence[str], seconds: float | None = None,
-           finish: Callable | None = None):
+           finish: Callable | None = None, budget=None):
     """Final cells below the given task(s), depth first (h >= 0 side first), each passed through
-    `finish`.  With a time budget in `seconds`, stops after it and also returns the tasks still
-    pending, so a scheduler can hand them to idle workers: returns (cells, pending) then."""
+    `finish`.  With a time slice in `seconds`, stops after it and also returns the tasks still
+    pending, so a scheduler can hand them to idle workers: returns (cells, pending) then.
+    `budget` (verifier.budget.Budget): the claim's clock, checked before every step."""
     import time
     numbers = number_nodes(targets)
     stack = list(reversed(tasks)) if isinstance(tasks, list) else [tasks]
     cells, start = [], time.perf_counter()
     while stack and (seconds is None or time.perf_counter() - start < seconds):
+        if budget is not None:
+            budget.check("regime decomposition")
         got = _step(stack.pop(), targets, names, numbers)
         if isinstance(got, Cell):
             cells.append(finish(got) if finish is not None else got)
@@ -134,17 +137,20 @@ def initial_tasks(region: Region, names: Sequence[str]) -> list[Task]:
 _WORKER: dict = {}
 
 
-def worker_setup(targets: Sequence[Expr], names: Sequence[str], finish: Callable | None = None) -> None:
-    """Process-pool initializer: the targets (and the finish hook) travel once per worker."""
-    _WORKER.update(targets=tuple(targets), names=tuple(names), finish=finish)
+def worker_setup(targets: Sequence[Expr], names: Sequence[str], finish: Callable | None = None,
+                 budget=None) -> None:
+    """Process-pool initializer: the targets (and the finish hook, the budget) travel once per worker."""
+    _WORKER.update(targets=tuple(targets), names=tuple(names), finish=finish, budget=budget)
 
 
 def refine_in_worker(tasks: list, seconds: float):
-    return refine(tasks, _WORKER["targets"], _WORKER["names"], seconds, _WORKER["finish"])
+    return refine(tasks, _WORKER["targets"], _WORKER["names"], seconds, _WORKER["finish"],
+                  _WORKER.get("budget"))
 
 
 def decompose(targets: Sequence[Expr], region: Region, names: Sequence[str], pool=None,
-              progress: Callable | None = None, seconds: float = 0.5, finish: Callable | None = None) -> list[Cell]:
+              progress: Callable | None = None, seconds: float = 0.5, finish: Callable | None = None,
+              budget=None) -> list[Cell]:
     """Cells covering `region` on which every target is affine, sorted by interior point.
 
     With a process `pool` (concurrent.futures, initialised by worker_setup with the same targets,
@@ -156,7 +162,7 @@ def decompose(targets: Sequence[Expr], region: Region, names: Sequence[str], poo
     if pool is None:
         cells = []
         for t in tasks:
-            cells += refine([t], targets, names, finish=finish)
+            cells += refine([t], targets, names, finish=finish, budget=budget)
             if progress:
                 progress("cells", len(cells), len(cells))
         return sorted(cells, key=lambda c: c.key_point(names))
@@ -169,6 +175,8 @@ def decompose(targets: Sequence[Expr], region: Region, names: Sequence[str], poo
         while queue and len(running) < n:
             running.add(pool.submit(refine_in_worker, queue.pop(0), seconds))
         done, running = wait(running, return_when=FIRST_COMPLETED)
+        if budget is not None:
+            budget.check("regime decomposition")
         for fut in done:
             got, pending = fut.result()
             cells += got

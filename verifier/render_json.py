@@ -14,7 +14,7 @@ from .expr import Affine, to_text
 from .region import Atom, Polyhedron
 from .report import ClaimReport, Report, num
 
-SCHEMA_VERSION = 1
+SCHEMA_VERSION = 2
 
 
 def fraction(text: str) -> Fraction:
@@ -62,8 +62,8 @@ def failure_json(f) -> dict | None:
     pieces = [{"regime": p.regime, "obligation": p.obligation, "region": polyhedron_json(p.polyhedron),
                "dim": p.dim, "full_dimensional": p.full_dimensional, "point": point_json(p.point),
                "worst_value": None if p.worst_value is None else num(p.worst_value),
-               "worst_point": point_json(p.worst_point), "worst_attained": p.worst_attained,
-               "small_point": point_json(p.small_point)} for p in f.pieces]
+               "worst_point": point_json(p.worst_point), "worst_attained": p.worst_attained}
+              for p in f.pieces]
     return {"pieces": pieces, "full_dimensional": f.full_dimensional,
             "share": None if f.share is None else num(f.share), "share_note": f.share_note}
 
@@ -90,7 +90,10 @@ def report_json(report: Report) -> dict:
     """The report as plain JSON data (dicts, lists, strings, bools, ints, null)."""
     return {"schema": "gdof-report", "schema_version": SCHEMA_VERSION, "title": report.title,
             "source": report.source, "solver": report.solver, "versions": dict(report.versions),
-            "summary": report.status_counts, "claims": [section_json(s) for s in report.sections],
+            "summary": report.status_counts,
+            "claims": [{"name": c.name, "statement": c.statement, "status": c.status, "expected": c.expect,
+                        "notes": list(c.notes), "parts": [section_json(s) for s in c.sections]}
+                       for c in report.claims],
             "caution": report.caution}
 
 

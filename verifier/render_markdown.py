@@ -8,8 +8,8 @@ from __future__ import annotations
 
 import html
 
-from .render_text import summary_lines, table_rows
-from .report import ClaimReport, Report, solver_text
+from .render_text import part_heading, summary_lines, table_rows
+from .report import ClaimEntry, ClaimReport, Report, solver_text
 
 
 def _cell(text: str) -> str:
@@ -22,20 +22,30 @@ def _table(head, rows) -> list[str]:
     return out + ["| " + " | ".join(_cell(c) for c in r) + " |" for r in rows]
 
 
-def section_markdown(section: ClaimReport) -> list[str]:
-    lines = [f"## {section.title}", "", f"**{section.status.upper()}** — `{section.statement}`", ""]
-    if section.expect and section.expect != section.status:
-        lines += [f"> Declared verdict was **{section.expect}**.", ""]
+def section_markdown(section: ClaimReport, heading: str = "") -> list[str]:
+    lines = [heading, ""] if heading else []
     lines += [f"Parameters: {', '.join(section.names)}; {len(section.regimes)} regimes from "
               f"{section.cells} cells; method: {section.method}."
               + (f" One-shot check by {section.smt_solver}: {section.smt_status}." if section.smt_solver else ""),
               ""]
     if section.detail:
         lines += [f"Note: {section.detail}", ""]
-    lines += _table(*table_rows(section)) + [""]
+    if section.regimes:
+        lines += _table(*table_rows(section)) + [""]
     for s in summary_lines(section):
         lines.append(f"  - {s.strip()}" if s.startswith("  ") else f"- {s}")
     return lines + [""]
+
+
+def claim_markdown(entry: ClaimEntry) -> list[str]:
+    lines = [f"## {entry.name or entry.statement}", "", f"Verdict: **{entry.status}** — `{entry.statement}`", ""]
+    if entry.expect and entry.expect != entry.status:
+        lines += [f"> Declared verdict was **{entry.expect}**.", ""]
+    lines += [f"- {n}" for n in entry.notes] + ([""] if entry.notes else [])
+    for k, section in enumerate(entry.sections, 1):
+        heading = part_heading(entry, k, section).strip()
+        lines += section_markdown(section, f"### {heading[0].upper()}{heading[1:]}" if heading else "")
+    return lines
 
 
 def render_markdown(report: Report) -> str:
@@ -43,8 +53,8 @@ def render_markdown(report: Report) -> str:
     lines = [f"# {report.title or 'Region-wise report'}", ""]
     if report.source:
         lines += [f"Source: {report.source}", ""]
-    for section in report.sections:
-        lines += section_markdown(section)
+    for entry in report.claims:
+        lines += claim_markdown(entry)
     counts = report.status_counts
     lines += [f"Summary: {counts['proved']} proved, {counts['refuted']} refuted, {counts['unknown']} unknown.",
               "", f"Solver: {solver_text(report)}", "", f"> **Caution.** {report.caution}", ""]
@@ -60,12 +70,16 @@ def _html_table(head, rows) -> str:
 def render_html(report: Report) -> str:
     """A small self-contained HTML view (for notebooks); same facts as the Markdown."""
     parts = [f"<h3>{html.escape(report.title or 'Region-wise report')}</h3>"]
-    for s in report.sections:
-        parts.append(f"<h4>{html.escape(s.title)}: <b>{s.status.upper()}</b></h4>"
-                     f"<p><code>{html.escape(s.statement)}</code></p>")
-        parts.append(_html_table(*table_rows(s)))
-        items = "".join(f"<li>{html.escape(x.strip())}</li>" for x in summary_lines(s))
-        parts.append(f"<ul>{items}</ul>" if items else "")
+    for entry in report.claims:
+        parts.append(f"<h4>{html.escape(entry.name or entry.statement)}: <b>{entry.status}</b></h4>"
+                     f"<p><code>{html.escape(entry.statement)}</code></p>")
+        parts += [f"<p>{html.escape(n)}</p>" for n in entry.notes]
+        for k, s in enumerate(entry.sections, 1):
+            heading = part_heading(entry, k, s).strip()
+            parts.append(f"<p><i>{html.escape(heading)}</i></p>" if heading else "")
+            parts.append(_html_table(*table_rows(s)) if s.regimes else "")
+            items = "".join(f"<li>{html.escape(x.strip())}</li>" for x in summary_lines(s))
+            parts.append(f"<ul>{items}</ul>" if items else "")
     parts.append(f"<p>Solver: {html.escape(solver_text(report))}</p>")
     parts.append(f"<p><b>Caution.</b> {html.escape(report.caution)}</p>")
     return "\n".join(parts)

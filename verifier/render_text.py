@@ -7,7 +7,7 @@ referee reports, and `grep` on a verdict must work.
 from __future__ import annotations
 
 from .expr import to_text
-from .report import ClaimReport, Report, failure_share_text, gap_text, num, point_text, solver_text
+from .report import ClaimEntry, ClaimReport, Report, failure_share_text, gap_text, num, point_text, solver_text
 
 
 def verdict_cell(row) -> str:
@@ -63,18 +63,33 @@ def summary_lines(section: ClaimReport) -> list[str]:
     return lines
 
 
-def section_lines(section: ClaimReport) -> list[str]:
-    head = f"[{section.status.upper()}] {section.title}"
-    if section.expect and section.expect != section.status:
-        head += f"   << declared {section.expect} >>"
-    lines = [head, f"  {section.statement}",
-             f"  parameters: {', '.join(section.names)}; {len(section.regimes)} regimes from "
-             f"{section.cells} cells; method {section.method}"
-             + (f"; one-shot check by {section.smt_solver}: {section.smt_status}" if section.smt_solver else "")]
+def section_lines(section: ClaimReport, heading: str = "") -> list[str]:
+    """One part's regime table and summaries; `heading` names the part inside its claim."""
+    lines = [heading] if heading else []
+    lines += [f"  parameters: {', '.join(section.names)}; {len(section.regimes)} regimes from "
+              f"{section.cells} cells; method {section.method}"
+              + (f"; one-shot check by {section.smt_solver}: {section.smt_status}" if section.smt_solver else "")]
     if section.detail:
         lines.append(f"  note: {section.detail}")
-    lines += [""] + ["  " + x for x in aligned(*table_rows(section))] + [""]
+    if section.regimes:
+        lines += [""] + ["  " + x for x in aligned(*table_rows(section))] + [""]
     return lines + ["  " + x for x in summary_lines(section)]
+
+
+def part_heading(entry: ClaimEntry, k: int, section: ClaimReport) -> str:
+    """'' for a claim decided as one part, else 'part 2 of 5 (label): verdict'."""
+    if len(entry.sections) == 1 and not section.label:
+        return ""
+    return f"  part {k} of {len(entry.sections)} ({section.label or 'whole region'}): {section.status}"
+
+
+def claim_lines(entry: ClaimEntry) -> list[str]:
+    declared = f" (declared {entry.expect})" if entry.expect and entry.expect != entry.status else ""
+    lines = [f"{entry.name or entry.statement}: {entry.status}{declared}", f"  {entry.statement}"]
+    lines += [f"  note: {n}" for n in entry.notes]
+    for k, section in enumerate(entry.sections, 1):
+        lines += section_lines(section, part_heading(entry, k, section))
+    return lines
 
 
 def render_text(report: Report) -> str:
@@ -85,8 +100,8 @@ def render_text(report: Report) -> str:
     if report.source:
         lines.append(f"Source: {report.source}")
     lines.append(f"Solver: {solver_text(report)}")
-    for section in report.sections:
-        lines += [""] + section_lines(section)
+    for entry in report.claims:
+        lines += [""] + claim_lines(entry)
     counts = report.status_counts
     lines += ["", f"Summary: {counts['proved']} proved, {counts['refuted']} refuted, "
                   f"{counts['unknown']} unknown.", report.caution]

@@ -86,6 +86,7 @@ class ClaimReport:
     cells: int
     seconds: float
     expect: str | None = None
+    proof: RegimeProof | None = field(default=None, compare=False, repr=False)  # for certificates; not serialised
 
     def to_sympy(self, side: int = 0):
         """One side as a sympy Piecewise over the regimes (for notebooks and further algebra)."""
@@ -107,19 +108,42 @@ class ClaimReport:
 
 
 @dataclass(frozen=True)
+class ClaimEntry:
+    """One claim as the user stated it, with its one verdict and the region-wise reports of its parts.
+
+    A claim about a scheme given regime by regime is decided as several parts (one per regime
+    combination) plus coverage; `status` is the claim's verdict from verifier.verdicts, the same as
+    `gdof check` prints; each section keeps its own part verdict.  `notes`: uncovered points, why
+    the claim is unknown, loud disagreements."""
+
+    name: str
+    statement: str
+    status: str
+    sections: tuple[ClaimReport, ...]
+    expect: str | None = None
+    notes: tuple[str, ...] = ()
+
+
+@dataclass(frozen=True)
 class Report:
-    """A titled list of claim reports with the solver versions and the caution."""
+    """A titled list of claims (each with its part reports), solver versions and the caution."""
 
     title: str
     source: str
-    sections: tuple[ClaimReport, ...]
+    claims: tuple[ClaimEntry, ...]
     solver: str
     versions: Mapping[str, str] = field(default_factory=dict)
     caution: str = CAUTION
 
     @property
+    def sections(self) -> tuple[ClaimReport, ...]:
+        """Every part report, claim by claim."""
+        return tuple(s for c in self.claims for s in c.sections)
+
+    @property
     def status_counts(self) -> dict[str, int]:
-        return {s: sum(c.status == s for c in self.sections) for s in ("proved", "refuted", "unknown")}
+        from .verdicts import tally
+        return tally(c.status for c in self.claims)
 
     def _repr_markdown_(self) -> str:
         from .render_markdown import render_markdown
@@ -149,25 +173,29 @@ def claim_report(proof: RegimeProof, label: str = "", expect: str | None = None)
         thresholds=proof.thresholds, failure=proof.failure, counterexamples=proof.counterexamples,
         parts=proof.parts, gaps=proof.gaps, smt_solver=smt.solver if smt else "",
         smt_status=smt.status if smt else "", agree=proof.agree, certified=proof.certified,
-        cells=proof.cells, seconds=float(proof.timing.get("total", 0.0)), expect=expect)
+        cells=proof.cells, seconds=float(proof.timing.get("total", 0.0)), expect=expect,
+        proof=proof)
 
 
 def build_report(proofs, title: str = "", source: str = "", solver: str = "z3",
                  caution: str = CAUTION, versions: Mapping[str, str] | None = None) -> Report:
-    """A Report from a RegimeProof, a ClaimReport, or a sequence of them (or of (label, proof))."""
-    if isinstance(proofs, (RegimeProof, ClaimReport)):
+    """A Report from ClaimEntry objects, or from a RegimeProof, a ClaimReport, or a sequence of them
+    (or of (label, proof)); a bare proof or section is a claim of its own, with its own verdict."""
+    if isinstance(proofs, (RegimeProof, ClaimReport, ClaimEntry)):
         proofs = [proofs]
-    sections = []
+    entries = []
     for item in proofs:
         if isinstance(item, tuple):
             item = claim_report(item[1], label=item[0])
         elif isinstance(item, RegimeProof):
             item = claim_report(item)
-        sections.append(item)
+        if isinstance(item, ClaimReport):
+            item = ClaimEntry(item.name, item.statement, item.status, (item,), item.expect)
+        entries.append(item)
     if versions is None:
         from .smt import versions as solver_versions
         versions = solver_versions()
-    return Report(title, source, tuple(sections), solver, dict(versions), caution)
+    return Report(title, source, tuple(entries), solver, dict(versions), caution)
 
 
 def constraint_text(atoms: Sequence[Atom]) -> str:

@@ -13,10 +13,11 @@ from __future__ import annotations
 import time
 from dataclasses import dataclass, field
 from fractions import Fraction
+from math import gcd
 from typing import Mapping, Sequence
 
 from .errors import SolverError
-from .expr import Affine, Expr, Max, Min, Sum, params
+from .expr import Affine, Expr, Max, Min, Sum, children, params
 from .region import Region
 
 SOLVERS = ("z3", "cvc5")
@@ -27,8 +28,11 @@ CONDITION_RELATIONS = ("<", "<=", "==", "!=", ">=", ">")
 class Query:
     """Exists a point in `region` where all `conditions` (lhs, rel, rhs) hold?
 
-    `grid`: when set, every parameter is forced onto the lattice (1/grid) * Z; the witness search uses
-    it to find counterexamples with a small common denominator.
+    `grid`: when set, every parameter is forced onto the lattice (1/grid) * Z; the query is then
+    stated over integer numerators (x = k / grid, everything scaled to integer coefficients), pure
+    linear integer arithmetic, which both backends decide far faster than mixed real/integer terms.
+    `box` (with grid): |k| <= box for every numerator k = grid * x.
+    `numerators` (with grid): ((name, lo, hi), ...) bounds lo <= grid * x_name <= hi (None: open).
     `names`: parameters that must exist as variables even if no expression mentions them.
     `outside`: regions the point must avoid (coverage checks of regime-by-regime definitions).
     """
@@ -38,6 +42,8 @@ class Query:
     grid: int | None = None
     names: tuple[str, ...] = ()
     outside: tuple[Region, ...] = ()
+    box: int | None = None
+    numerators: tuple[tuple[str, int | None, int | None], ...] = ()
 
     def variables(self) -> tuple[str, ...]:
         found = set(self.names) | set(self.region.params())
@@ -46,6 +52,32 @@ class Query:
         for lhs, _, rhs in self.conditions:
             found |= params(lhs) | params(rhs)
         return tuple(sorted(found))
+
+    def numbers(self):
+        """Every exact number the query mentions (the integer scaling is their common denominator)."""
+        for r in (self.region,) + self.outside:
+            for poly in r.pieces:
+                for a in poly.atoms:
+                    yield a.form.const
+                    yield from (c for _, c in a.form.coeffs)
+        for lhs, _, rhs in self.conditions:
+            for e in (lhs, rhs):
+                for node in _nodes(e):
+                    aff = node.affine if isinstance(node, Sum) else node if isinstance(node, Affine) else None
+                    if aff is not None:
+                        yield aff.const
+                        yield from (c for _, c in aff.coeffs)
+
+
+def _nodes(e: Expr):
+    stack, seen = [e], set()
+    while stack:
+        node = stack.pop()
+        if id(node) in seen:
+            continue
+        seen.add(id(node))
+        yield node
+        stack.extend(children(node))
 
 
 @dataclass(frozen=True)
@@ -61,22 +93,39 @@ class Answer:
 
 @dataclass
 class _Encoder:
+    """pysmt terms of one query.  Real mode: parameters are Real symbols.  Integer mode (a grid
+    query): parameter x is k / grid with k an Int symbol, and every term is multiplied by `scale`
+    (grid times the common denominator of the query's numbers), so all coefficients are integers
+    and comparisons are unchanged (min, max, sums and relations commute with a positive scaling)."""
+
     mgr: object
+    grid: int | None = None
+    scale: int = 1
     symbols: dict = field(default_factory=dict)
     cache: dict = field(default_factory=dict)
 
     def var(self, name: str):
-        from pysmt.typing import REAL
+        from pysmt.typing import INT, REAL
         if name not in self.symbols:
-            self.symbols[name] = self.mgr.Symbol(name, REAL)
+            if self.grid is None:
+                self.symbols[name] = self.mgr.Symbol(name, REAL)
+            else:
+                self.symbols[name] = self.mgr.Symbol(f"{name}__num", INT)
         return self.symbols[name]
 
-    def real(self, q: Fraction):
-        return self.mgr.Real(Fraction(q))
+    def number(self, q: Fraction, per_variable: bool = False):
+        """A constant term; in integer mode scaled (a coefficient of k is scaled by scale/grid)."""
+        q = Fraction(q)
+        if self.grid is None:
+            return self.mgr.Real(q)
+        scaled = q * (Fraction(self.scale, self.grid) if per_variable else self.scale)
+        if scaled.denominator != 1:
+            raise SolverError("internal: integer scaling left a fraction")
+        return self.mgr.Int(scaled.numerator)
 
     def affine(self, a: Affine):
-        terms = [self.mgr.Times(self.real(c), self.var(n)) for n, c in a.coeffs]
-        terms.append(self.real(a.const))
+        terms = [self.mgr.Times(self.number(c, True), self.var(n)) for n, c in a.coeffs]
+        terms.append(self.number(a.const))
         return terms[0] if len(terms) == 1 else self.mgr.Plus(terms)
 
     def term(self, e: Expr):
@@ -110,31 +159,52 @@ class _Encoder:
         m = self.mgr
         pieces = []
         for poly in region.pieces:
-            atoms = [(m.GT if a.strict else m.GE)(self.affine(a.form), self.real(Fraction(0)))
+            atoms = [(m.GT if a.strict else m.GE)(self.affine(a.form), self.number(Fraction(0)))
                      for a in poly.atoms]
             pieces.append(m.And(atoms) if atoms else m.TRUE())
         return m.Or(pieces) if pieces else m.FALSE()
 
-    def grid(self, names: Sequence[str], denominator: int):
-        from pysmt.typing import INT
+    def numerator_bounds(self, query: Query, names: Sequence[str]):
+        """The box and per-name bounds on the integer numerators (integer mode only)."""
         m = self.mgr
-        links = []
-        for n in names:
-            k = m.Symbol(f"{n}__grid", INT)
-            links.append(m.Equals(m.Times(self.real(Fraction(denominator)), self.var(n)), m.ToReal(k)))
-        return m.And(links)
+        out = []
+        if query.box is not None:
+            for n in names:
+                out += [m.LE(self.var(n), m.Int(int(query.box))), m.GE(self.var(n), m.Int(-int(query.box)))]
+        for n, lo, hi in query.numerators:
+            if lo is not None:
+                out.append(m.GE(self.var(n), m.Int(int(lo))))
+            if hi is not None:
+                out.append(m.LE(self.var(n), m.Int(int(hi))))
+        return out
+
+
+def _lcm_of_denominators(numbers) -> int:
+    out = 1
+    for q in numbers:
+        d = Fraction(q).denominator
+        out = out * d // gcd(out, d)
+    return out
 
 
 def _formula(query: Query, enc: _Encoder):
-    parts = [enc.region(query.region)]
-    parts += [enc.relation(l, r, h) for l, r, h in query.conditions]
-    parts += [enc.mgr.Not(enc.region(r)) for r in query.outside]
     names = query.variables()
     for n in names:
         enc.var(n)
+    parts = [enc.region(query.region)]
+    parts += [enc.relation(l, r, h) for l, r, h in query.conditions]
+    parts += [enc.mgr.Not(enc.region(r)) for r in query.outside]
     if query.grid is not None:
-        parts.append(enc.grid(names, query.grid))
+        parts += enc.numerator_bounds(query, names)
     return enc.mgr.And(parts), names
+
+
+def _encoder(query: Query, env) -> _Encoder:
+    if query.grid is None:
+        return _Encoder(env.formula_manager)
+    if not (isinstance(query.grid, int) and query.grid >= 1):
+        raise SolverError(f"internal: grid must be a positive integer, not {query.grid!r}")
+    return _Encoder(env.formula_manager, query.grid, query.grid * _lcm_of_denominators(query.numbers()))
 
 
 def _options(solver: str, timeout: float) -> dict:
@@ -144,21 +214,25 @@ def _options(solver: str, timeout: float) -> dict:
     return {"tlimit-per": str(ms)}
 
 
+def _logic(query: Query):
+    from pysmt.logics import QF_LIA, QF_LRA
+    return QF_LIA if query.grid is not None else QF_LRA
+
+
 def check(query: Query, solver: str = "z3", timeout: float = 30.0) -> Answer:
     """Decide `query` with one backend.  Never raises for 'unknown'; a missing backend is SolverError."""
     if solver not in SOLVERS:
         raise SolverError(f"unknown solver '{solver}'; choose one of {', '.join(SOLVERS)}")
     from pysmt.environment import Environment
     from pysmt.exceptions import SolverReturnedUnknownResultError, NoSolverAvailableError
-    from pysmt.logics import QF_LIRA, QF_LRA
 
     env = Environment()
-    enc = _Encoder(env.formula_manager)
+    enc = _encoder(query, env)
     formula, names = _formula(query, enc)
-    logic = QF_LIRA if query.grid is not None else QF_LRA
     start = time.perf_counter()
     try:
-        with env.factory.Solver(name=solver, logic=logic, solver_options=_options(solver, timeout)) as s:
+        with env.factory.Solver(name=solver, logic=_logic(query),
+                                solver_options=_options(solver, timeout)) as s:
             s.add_assertion(formula)
             sat = s.solve()
             model = {n: s.get_value(enc.var(n)).constant_value() for n in names} if sat else None
@@ -172,8 +246,33 @@ def check(query: Query, solver: str = "z3", timeout: float = 30.0) -> Answer:
                       seconds=time.perf_counter() - start)
     seconds = time.perf_counter() - start
     if sat:
-        return Answer("sat", solver, {n: Fraction(v) for n, v in model.items()}, seconds=seconds)
+        denominator = query.grid or 1
+        return Answer("sat", solver, {n: Fraction(Fraction(v), denominator) for n, v in model.items()},
+                      seconds=seconds)
     return Answer("unsat", solver, seconds=seconds)
+
+
+def smtlib_text(query: Query, comment: str = "", expected: str = "unsat") -> str:
+    """The query as an SMT-LIB v2.6 script (set-logic, declarations, one assertion, check-sat).
+
+    Why: a third party can re-run any proof obligation with any SMT solver, without this project.
+    `comment` lines explain what the obligation means; `expected` is stated with set-info :status."""
+    import io
+    from pysmt.environment import Environment
+    from pysmt.smtlib.script import smtlibscript_from_formula
+
+    env = Environment()
+    enc = _encoder(query, env)
+    formula, _ = _formula(query, enc)
+    script = smtlibscript_from_formula(formula, logic=_logic(query))
+    buf = io.StringIO()
+    script.serialize(buf, daggify=False)
+    body = buf.getvalue()
+    head = "".join(f"; {line}\n" for line in comment.splitlines())
+    lines = body.splitlines()
+    # (set-info :status ...) goes right after set-logic, as the standard's benchmarks do
+    out = [lines[0], f"(set-info :smt-lib-version 2.6)", f"(set-info :status {expected})"] + lines[1:]
+    return head + "\n".join(out) + "\n"
 
 
 def is_available(solver: str) -> bool:

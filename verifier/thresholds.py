@@ -74,8 +74,9 @@ def _adjacent(a, b, h: Affine, names) -> bool:
     return feasible(atoms, others) is not None
 
 
-def thresholds(regimes: Sequence, names: Sequence[str]) -> tuple[Threshold, ...]:
-    """Every hyperplane separating two adjacent regimes (regimes: objects with `polytopes`)."""
+def thresholds(regimes: Sequence, names: Sequence[str], budget=None) -> tuple[Threshold, ...]:
+    """Every hyperplane separating two adjacent regimes (regimes: objects with `polytopes`).
+    `budget` (verifier.budget.Budget) is checked once per candidate hyperplane."""
     planes: dict[Affine, list] = {}
     for r, regime in enumerate(regimes):
         for p in regime.polytopes:
@@ -86,6 +87,8 @@ def thresholds(regimes: Sequence, names: Sequence[str]) -> tuple[Threshold, ...]
                     planes.setdefault(h, []).append((r, p, side))
     out = []
     for h, owners in planes.items():
+        if budget is not None:
+            budget.check("thresholds")
         pairs = set()
         for i, (ra, pa, sa) in enumerate(owners):
             for rb, pb, sb in owners[i + 1:]:

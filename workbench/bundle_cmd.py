@@ -107,6 +107,8 @@ def write_contents(report: Report, folder: Path, case_path: str = "") -> None:
     (folder / "versions.txt").write_text(versions_text(report, case_path), encoding="utf-8")
     figures = write_plots(report, folder)
     (folder / "main.tex").write_text(latex_document("report.tex", figures), encoding="utf-8")
+    from .standalone import write_certificates  # certificates/claimNN.json + the standalone checker
+    write_certificates(report, folder)
 
 
 def write_bundle(report: Report, outdir: str | Path, case_path: str = "", force: bool = False) -> Path:
@@ -145,9 +147,9 @@ def run(args) -> int:
     if Path(args.outdir).exists() and not args.force:  # refuse before the long proof, not after
         raise InputError(f"bundle: '{args.outdir}' already exists (use --force to replace it)")
     report = case_report(case, select(case, args.claim), args.solver, args.timeout, args.cross_check,
-                         max(1, args.workers), progress_bar())
+                         max(1, args.workers), progress_bar(), getattr(args, "budget", None))
     write_bundle(report, args.outdir, str(args.case), args.force)
     counts = report.status_counts
-    print(f"bundle written to {args.outdir}: {len(report.sections)} claims, {counts['proved']} proved, "
+    print(f"bundle written to {args.outdir}: {len(report.claims)} claims, {counts['proved']} proved, "
           f"{counts['refuted']} refuted, {counts['unknown']} unknown")
-    return exit_code(s.status for s in report.sections)
+    return exit_code(c.status for c in report.claims)

@@ -29,7 +29,8 @@ def select(case, names):
 
 def run(args) -> int:
     case = load_case(args.case, args.solver, args.timeout)
-    outcomes = [decide(cc, args.solver, args.timeout, args.cross_check) for cc in select(case, args.claim)]
+    outcomes = [decide(cc, args.solver, args.timeout, args.cross_check, "smt", getattr(args, "budget", None))
+                for cc in select(case, args.claim)]
     if args.json:
         print(vt.dumps(as_json(case, outcomes, args)))
     else:

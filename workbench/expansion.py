@@ -57,12 +57,19 @@ def expand(case_claim, case) -> None:
     for n in smooth:  # never judge a value the scheme does not define: stay inside its regimes
         covered = covered.meet(dict(case_claim.coverage)[n])
     claim = substitute_claim(claim, smooth, covered if smooth else None)
+    case_claim.blocked = ""
     if not rough:
         case_claim.subclaims = [("", claim)]
         return
     if claim.kind in ("monotone", "symmetric"):
+        check = case.piecewise[rough[0]]
+        if check.form == "unknown":   # undecided is no input error: the claim stays unknown
+            case_claim.subclaims = []
+            case_claim.blocked = (f"'{rough[0]}' is given regime by regime and {check.detail}; a "
+                                  f"{claim.kind} claim needs one formula")
+            return
         raise InputError(f"'{rough[0]}' is given regime by regime and is not one continuous function "
-                         f"({case.piecewise[rough[0]].detail}); a {claim.kind} claim needs one formula")
+                         f"({check.detail}); a {claim.kind} claim needs one formula")
     subclaims = []
     for combo in product(*(list(enumerate(case.piecewise[n].pieces, 1)) for n in rough)):
         region = claim.region

@@ -8,23 +8,20 @@ failure sets -- in text, Markdown, LaTeX or exact JSON, all from one verifier.re
 from __future__ import annotations
 
 import os
-from dataclasses import replace
 import sys
 import tempfile
 from pathlib import Path
 
-from verifier.errors import RegionError
-from verifier.regime_proof import prove_by_regimes
 from verifier.render_json import render_json
 from verifier.render_latex import render_latex
 from verifier.render_markdown import render_markdown
 from verifier.render_text import render_text
-from verifier.report import Report, build_report, claim_report
+from verifier.report import ClaimEntry, Report, build_report, claim_report
 
 from . import verdict_text as vt
 from .casefile import load_case
 from .check_cmd import select
-from .decide import coverage_gaps, uncovered_note
+from .decide import decide, uncovered_note
 from .exit_codes import exit_code
 
 RENDERERS = {"text": render_text, "markdown": render_markdown, "latex": render_latex, "json": render_json}
@@ -55,33 +52,20 @@ def progress_bar(stream=None):
 
 
 def case_report(case, case_claims, solver="z3", timeout=30.0, cross_check=False, workers=1,
-                progress=None) -> Report:
-    """Run prove_by_regimes on every sub-claim of the chosen case claims and build the Report.
-
-    A sub-claim whose region misses the claim's (a regime of a split bound) is skipped, as in check."""
-    sections = []
+                progress=None, budget=None) -> Report:
+    """Decide every chosen case claim region by region (workbench.decide, method 'regimes': the same
+    plan of obligations as `check`, so the verdicts agree claim for claim) and build the Report: one
+    entry per claim, with a section per part whose sub-region is not empty."""
+    entries = []
     for cc in case_claims:
-        got = 0
-        gaps, _ = coverage_gaps(cc, solver, timeout)
-        for label, sub in cc.subclaims:
-            try:
-                proof = prove_by_regimes(sub, solver, timeout, cross_check, workers,
-                                         progress(sub.name or label) if progress else None)
-            except RegionError:
-                if len(cc.subclaims) == 1:
-                    raise
-                continue
-            section = claim_report(proof, label, cc.expect)
-            if gaps:  # the scheme says nothing somewhere in the claim's region: the claim fails there
-                section = replace(section, status="refuted",
-                                  detail="; ".join(x for x in (uncovered_note(gaps), section.detail) if x))
-            sections.append(section)
-            got += 1
-        if not got:
-            raise RegionError(f"the region of claim '{cc.claim.name}' meets none of its regimes")
+        outcome = decide(cc, solver, timeout, cross_check, "regimes", budget, workers, progress)
+        sections = tuple(claim_report(p.result, p.label, None) for p in outcome.parts)
+        notes = tuple(uncovered_note([gap]) for gap in outcome.uncovered) + tuple(outcome.notes)
+        entries.append(ClaimEntry(cc.claim.name, cc.claim.text(), outcome.status, sections, cc.expect,
+                                  notes))
     if progress:
         sys.stderr.write("\r" + " " * 80 + "\r")
-    return build_report(sections, case.title, case.source, "z3 and cvc5" if cross_check else solver,
+    return build_report(entries, case.title, case.source, "z3 and cvc5" if cross_check else solver,
                         caution=vt.CAUTION)
 
 
@@ -101,10 +85,10 @@ def write_atomic(path: str | Path, text: str) -> None:
 def run(args) -> int:
     case = load_case(args.case, args.solver, args.timeout)
     report = case_report(case, select(case, args.claim), args.solver, args.timeout, args.cross_check,
-                         max(1, args.workers), progress_bar())
+                         max(1, args.workers), progress_bar(), getattr(args, "budget", None))
     text = RENDERERS[args.format](report)
     if args.out:
         write_atomic(args.out, text)
     else:
         sys.stdout.write(text)
-    return exit_code(s.status for s in report.sections)
+    return exit_code(c.status for c in report.claims)

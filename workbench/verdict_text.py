@@ -83,6 +83,7 @@ def outcome_lines(outcome) -> list[str]:
     for name, point in outcome.uncovered:
         lines.append(f"    not covered: no regime of '{name}' contains {point_text(point)} "
                      "(a forgotten regime?)")
+    lines += [f"    note: {n}" for n in outcome.notes if n]
     for label, v in outcome.verdicts:
         if label:
             lines.append(f"    [{TAGS[v.status]}] {label}")
@@ -100,6 +101,7 @@ def outcome_json(outcome) -> dict:
             "expected": cc.expect, "seconds": round(outcome.seconds, 4),
             "uncovered": [{"bound": n, "point": {k: fmt(v) for k, v in p.items()}}
                           for n, p in outcome.uncovered],
+            "notes": list(outcome.notes),
             "parts": [dict(verdict_json(v), regime=label) for label, v in outcome.verdicts]}
 
 
