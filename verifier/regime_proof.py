@@ -102,20 +102,31 @@ def _shown(members, polys, by_piece, pieces, names):
     return out
 
 
-def _regimes(spec, cells, tgts, pieces, pool):
+def _regimes(spec, cells, tgts, pieces, pool, budget):
     """Group decided cells into regimes (same formulas and active parts) and present each."""
     index = {e.key: i for i, e in enumerate(tgts)}
     groups: dict = {}
     for cell in cells:
         groups.setdefault(_key(spec, cell, index), []).append(cell)
-    polys = {id(c): cell_polytope(c) for c in cells}
+    polys = {}
+    for c in cells:
+        budget.check("regime grouping")
+        polys[id(c)] = cell_polytope(c)
     by_piece: dict = {}
     for c in cells:
         by_piece.setdefault(c.piece, []).append((c, polys[id(c)]))
-    shown = [_shown(m, [polys[id(c)] for c in m], by_piece, pieces, spec.names) for m in groups.values()]
+    shown = []
+    for m in groups.values():
+        budget.check("regime grouping")
+        shown.append(_shown(m, [polys[id(c)] for c in m], by_piece, pieces, spec.names))
     flat = [p for group in shown for p in group]
-    nice_all = list(pool.map(_nice, flat, [spec.names] * len(flat), chunksize=8) if pool is not None
-                    else map(_nice, flat, [spec.names] * len(flat)))
+    if pool is not None:
+        nice_all = list(pool.map(_nice, flat, [spec.names] * len(flat), chunksize=8))
+    else:
+        nice_all = []
+        for poly in flat:
+            budget.check("regime grouping")
+            nice_all.append(_nice(poly, spec.names))
     regimes, k = [], 0
     for r, ((_, active), members) in enumerate(groups.items()):
         polytopes = nice_all[k:k + len(shown[r])]
@@ -165,7 +176,7 @@ def prove_by_regimes(claim: Claim, solver: str = "z3", timeout: float = 30.0, cr
         finish = partial(finish_cell, spec=spec, options=options, index=index, ship=False)
         cells = decompose(tgts, spec.region, spec.names, pool, progress, finish=finish, budget=budget)
         clock["decompose"] = time.perf_counter()
-        regimes = _regimes(spec, cells, tgts, pieces, pool)
+        regimes = _regimes(spec, cells, tgts, pieces, pool, budget)
         budget.check("regime grouping")
     except OutOfBudget as exc:
         if pool is not None:

@@ -91,6 +91,8 @@ def thresholds(regimes: Sequence, names: Sequence[str], budget=None) -> tuple[Th
             budget.check("thresholds")
         pairs = set()
         for i, (ra, pa, sa) in enumerate(owners):
+            if budget is not None:
+                budget.check("thresholds")
             for rb, pb, sb in owners[i + 1:]:
                 key = (min(ra, rb), max(ra, rb))
                 if ra != rb and key not in pairs and (sa != sb or pa.dim < len(names)) \
