@@ -122,6 +122,7 @@ class ClaimEntry:
     sections: tuple[ClaimReport, ...]
     expect: str | None = None
     notes: tuple[str, ...] = ()
+    obligations: tuple = field(default=(), compare=False, repr=False)   # verifier.verdicts.Obligation
 
 
 @dataclass(frozen=True)

@@ -33,6 +33,7 @@ from .check_cmd import select
 from .exit_codes import exit_code
 from .plots import regime_map, save_figure, slice_figure
 from .report_cmd import case_report, progress_bar
+from .smtlib_files import write_obligations
 
 
 def configure(p) -> None:
@@ -109,6 +110,7 @@ def write_contents(report: Report, folder: Path, case_path: str = "") -> None:
     (folder / "main.tex").write_text(latex_document("report.tex", figures), encoding="utf-8")
     from .standalone import write_certificates  # certificates/claimNN.json + the standalone checker
     write_certificates(report, folder)
+    write_obligations(report, folder)            # obligations/*.smt2, for any SMT-LIB solver
 
 
 def write_bundle(report: Report, outdir: str | Path, case_path: str = "", force: bool = False) -> Path:

@@ -62,7 +62,7 @@ def case_report(case, case_claims, solver="z3", timeout=30.0, cross_check=False,
         sections = tuple(claim_report(p.result, p.label, None) for p in outcome.parts)
         notes = tuple(uncovered_note([gap]) for gap in outcome.uncovered) + tuple(outcome.notes)
         entries.append(ClaimEntry(cc.claim.name, cc.claim.text(), outcome.status, sections, cc.expect,
-                                  notes))
+                                  notes, tuple(outcome.obligations)))
     if progress:
         sys.stderr.write("\r" + " " * 80 + "\r")
     return build_report(entries, case.title, case.source, "z3 and cvc5" if cross_check else solver,
