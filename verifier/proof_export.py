@@ -2,7 +2,7 @@
 
 Why: a referee or an editor should not have to trust (or install) our LP, decomposition and SMT code
 to accept a proved claim.  `export_proof` writes down everything that the standalone checker
-(workbench/standalone/check_certificates.py, standard library only) needs to recompute the proof:
+(verifier/standalone/check_certificates.py, standard library only) needs to recompute the proof:
 
 - the claim, in words and as data: kind, relation, gap, monotone parameter and direction, and the
   compared expression trees (regime_spec.spec_of: for reduces-to the expressions and region with the

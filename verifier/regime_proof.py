@@ -72,6 +72,7 @@ class RegimeProof:
     timing: Mapping[str, float] = field(default_factory=dict)
     cells: int = 0
     workers: int = 1
+    checked: bool | None = None          # the standalone checker re-verified certificates + coverage
 
     @property
     def certified(self) -> bool:
@@ -242,6 +243,11 @@ def _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, worke
     status, method, detail = _regime_status(spec, regimes, pieces)
     if status == REFUTED and not cexs:
         status, detail = UNKNOWN, "regimes fail but no failing point re-checks exactly: an engine defect"
+    checked = None
+    if status == PROVED and method == "regimes":
+        checked, why = _independent_check(claim, spec, regimes)
+        if checked is False:
+            status, detail = UNKNOWN, "; ".join(x for x in (detail, why) if x)
     agree = None
     if verdict is not None:
         smt_refutes = verdict.status == REFUTED
@@ -263,7 +269,29 @@ def _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, worke
     clock.setdefault("smt", clock["analysis"])
     timing = _timing(clock)
     return RegimeProof(claim, status, method, spec.names, spec.labels, regimes, ths, failure, cexs,
-                       parts, gaps, verdict, agree, detail, timing, len(cells), workers)
+                       parts, gaps, verdict, agree, detail, timing, len(cells), workers, checked)
+
+
+def _independent_check(claim, spec, regimes):
+    """(True, '') when the standalone checker (standard library only, a second implementation)
+    accepts the exported certificates and the coverage of the region by the cells; (None, reason)
+    when the proof is not fully certified (some cell decided by SMT, a monotone claim over several
+    polyhedra); (False, reason) when the checker rejects a proof we built: an engine defect, and the
+    region-wise method then says unknown."""
+    import json
+    from .proof_export import export_proof
+    from .standalone.check_certificates import Bad, check
+    provisional = RegimeProof(claim, PROVED, "regimes", spec.names, spec.labels, regimes, (), None, (),
+                              (), (), None, None)
+    data = export_proof(provisional)
+    if not data["complete"]:
+        return None, data["incomplete"]
+    try:
+        check(json.loads(json.dumps(data)))
+    except Bad as exc:
+        return False, (f"CERTIFICATE CHECK FAILED: the independent checker rejects the region-wise proof "
+                       f"({exc}); an engine defect, please report it")
+    return True, ""
 
 
 def _timing(clock):

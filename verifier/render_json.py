@@ -83,7 +83,7 @@ def section_json(s: ClaimReport) -> dict:
                       "point": point_json(g.point), "attained": g.attained, "regime": g.regime}
                      for g in s.gaps],
             "smt": {"solver": s.smt_solver, "status": s.smt_status, "agree": s.agree},
-            "certified": s.certified, "cells": s.cells, "seconds": f"{s.seconds:.4f}"}
+            "certified": s.certified, "rechecked": s.checked, "cells": s.cells, "seconds": f"{s.seconds:.4f}"}
 
 
 def report_json(report: Report) -> dict:

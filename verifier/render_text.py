@@ -68,7 +68,8 @@ def section_lines(section: ClaimReport, heading: str = "") -> list[str]:
     lines = [heading] if heading else []
     lines += [f"  parameters: {', '.join(section.names)}; {len(section.regimes)} regimes from "
               f"{section.cells} cells; method {section.method}"
-              + (f"; one-shot check by {section.smt_solver}: {section.smt_status}" if section.smt_solver else "")]
+              + (f"; one-shot check by {section.smt_solver}: {section.smt_status}" if section.smt_solver else "")
+              + ("; certificates and coverage re-checked by the standalone checker" if section.checked else "")]
     if section.detail:
         lines.append(f"  note: {section.detail}")
     if section.regimes:

@@ -1,8 +1,8 @@
 """The standalone certificate checker shipped in every bundle, and the bundle's certificates folder.
 
-check_certificates.py in this package uses only the Python standard library, so that an editor can
-re-check a proof without installing (or trusting) gdof-workbench; this module only locates it and
-writes the certificate files next to it.
+verifier/standalone/check_certificates.py uses only the Python standard library, so that an editor can
+re-check a proof without installing (or trusting) gdof-workbench; this module copies it into a bundle
+and writes the certificate files next to it.
 """
 
 from __future__ import annotations
@@ -10,7 +10,7 @@ from __future__ import annotations
 import shutil
 from pathlib import Path
 
-CHECKER = Path(__file__).with_name("check_certificates.py")
+from verifier.standalone import CHECKER
 
 README = """Proof certificates: one file per proved claim, claimNN.json (NN: the claim's position in report.md,
 as in plots/claimNN_*; a claim decided in parts has one number per part, and that the parts cover the
