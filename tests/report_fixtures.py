@@ -9,9 +9,9 @@ from workbench.casefile import load_case
 
 ROOT = Path(__file__).resolve().parent.parent
 ETW = ROOT / "casebook/published/etkin_tse_wang_2008.toml"
-RELAY = ROOT / "casebook/demo/relay_manuscript.toml"
+DEMO = ROOT / "casebook/demo/cache_downlink_manuscript.toml"
 W_CLAIM = "the W curve is the min of the symmetric outer bounds"
-RELAY_WRONG = "Theorem 1 as submitted: optimal for gamma > alpha > 1"
+DEMO_WRONG = "Theorem 1 as submitted: optimal once the caches exceed user 2's link, gamma > alpha"
 
 
 @lru_cache(maxsize=None)

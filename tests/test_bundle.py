@@ -6,7 +6,7 @@ import subprocess
 
 import pytest
 
-from report_fixtures import RELAY, RELAY_WRONG, section
+from report_fixtures import DEMO, DEMO_WRONG, section
 from verifier.errors import InputError
 from verifier.report import build_report
 from workbench import bundle_cmd
@@ -19,12 +19,12 @@ FILES = ["report.md", "report.tex", "main.tex", "report.json", "counterexamples.
 
 @pytest.fixture(scope="module")
 def report():
-    return build_report(section(RELAY, RELAY_WRONG), title="relay")
+    return build_report(section(DEMO, DEMO_WRONG), title="demo")
 
 
 @pytest.fixture(scope="module")
 def bundle(report, tmp_path_factory):
-    return bundle_cmd.write_bundle(report, tmp_path_factory.mktemp("b") / "out", str(RELAY))
+    return bundle_cmd.write_bundle(report, tmp_path_factory.mktemp("b") / "out", str(DEMO))
 
 
 def test_all_files_present_and_not_empty(bundle):
@@ -77,7 +77,7 @@ def test_force_replaces(report, tmp_path):
 
 def test_cli_refuses_existing_outdir_before_proving(tmp_path, capsys):
     (tmp_path / "out").mkdir()
-    assert main(["bundle", str(RELAY), str(tmp_path / "out")]) == 2
+    assert main(["bundle", str(DEMO), str(tmp_path / "out")]) == 2
     assert "already exists" in capsys.readouterr().err
 
 

@@ -72,7 +72,7 @@ def test_casebook_shelves_have_enough_cases():
     published = [p for p in FILES if p.parent.name == "published"]
     demo = [p for p in FILES if p.parent.name == "demo"]
     assert len(published) >= 6 and len(demo) >= 4
-    assert (CASEBOOK / "demo" / "relay_manuscript.toml") in demo  # the README's example
+    assert (CASEBOOK / "demo" / "cache_downlink_manuscript.toml") in demo  # the README's example
 
 
 @pytest.mark.parametrize("path", [p for p in FILES if p.parent.name == "published"],

@@ -4,7 +4,7 @@ from fractions import Fraction
 
 import pytest
 
-from report_fixtures import ETW, RELAY, RELAY_WRONG, W_CLAIM, section
+from report_fixtures import DEMO, DEMO_WRONG, ETW, W_CLAIM, section
 from verifier.errors import InputError
 from verifier.region import atoms_of
 from verifier.expr import param
@@ -39,11 +39,11 @@ def test_slice_drawn_through_exact_breakpoints():
 
 
 def test_regime_map_cells_failures_and_counterexamples():
-    s = section(RELAY, RELAY_WRONG)
+    s = section(DEMO, DEMO_WRONG)
     fig = regime_map(s)
     ax = fig.axes[0]
-    assert len(_gid(ax, "cell", "patches")) == len(s.regimes) == 2
-    assert len(_gid(ax, "failure", "patches")) == len(s.failure.pieces) == 2
+    assert len(_gid(ax, "cell", "patches")) == len(s.regimes) == 4
+    assert len(_gid(ax, "failure", "patches")) == len(s.failure.pieces) == 4
     assert len(_gid(ax, "counterexample")) == len(s.counterexamples)
     assert "$\\gamma$" in ax.get_ylabel()
 
@@ -62,7 +62,7 @@ def test_box_clipping_is_exact():
 
 
 def test_files_written_and_not_empty(tmp_path):
-    fig = slice_figure(section(RELAY, RELAY_WRONG), "gamma")
+    fig = slice_figure(section(DEMO, DEMO_WRONG), "gamma")
     paths = save_figure(fig, tmp_path / "slice", ("png", "pdf", "svg"))
     assert [p.suffix for p in paths] == [".png", ".pdf", ".svg"]
     assert all(p.stat().st_size > 1000 for p in paths)

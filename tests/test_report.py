@@ -7,7 +7,7 @@ from fractions import Fraction
 
 import pytest
 
-from report_fixtures import ETW, RELAY, RELAY_WRONG, W_CLAIM, section
+from report_fixtures import DEMO, DEMO_WRONG, ETW, W_CLAIM, section
 from verifier.region import Atom, atoms_of
 from verifier.expr import param
 from verifier.render_json import fraction, render_json
@@ -25,8 +25,8 @@ def w_report():
 
 
 @pytest.fixture(scope="module")
-def relay_report():
-    return build_report([section(ETW, W_CLAIM), section(RELAY, RELAY_WRONG)], title="two claims")
+def demo_report():
+    return build_report([section(ETW, W_CLAIM), section(DEMO, DEMO_WRONG)], title="two claims")
 
 
 def test_w_curve_has_five_regimes_and_the_published_thresholds(w_report):
@@ -50,26 +50,26 @@ def test_text_table_has_one_row_per_regime(w_report):
 
 
 @pytest.mark.parametrize("render", RENDERERS)
-def test_caution_and_versions_in_every_format(relay_report, render):
-    out = render(relay_report)
+def test_caution_and_versions_in_every_format(demo_report, render):
+    out = render(demo_report)
     assert "asymptotic in SNR" in out
     assert "z3" in out
 
 
-def test_every_format_lists_the_same_counterexample(relay_report):
-    cex = relay_report.sections[1].counterexamples[0]
-    assert relay_report.sections[1].status == "refuted"
+def test_every_format_lists_the_same_counterexample(demo_report):
+    cex = demo_report.sections[1].counterexamples[0]
+    assert demo_report.sections[1].status == "refuted"
     for render in (render_text, render_markdown):
-        assert f"lhs = {cex.lhs_value}" in render(relay_report)
-    assert "\\tfrac{5}{2}" in render_latex(relay_report) or "\\frac{5}{2}" in render_latex(relay_report)
+        assert f"lhs = {cex.lhs_value}" in render(demo_report)
+    assert "\\tfrac{3}{2}" in render_latex(demo_report) or "\\frac{3}{2}" in render_latex(demo_report)
 
 
-def test_json_round_trips_exactly(relay_report):
-    data = json.loads(render_json(relay_report))
-    assert data["schema"] == "gdof-report" and data["caution"] == relay_report.caution
-    assert data["claims"][1]["status"] == relay_report.claims[1].status
+def test_json_round_trips_exactly(demo_report):
+    data = json.loads(render_json(demo_report))
+    assert data["schema"] == "gdof-report" and data["caution"] == demo_report.caution
+    assert data["claims"][1]["status"] == demo_report.claims[1].status
     (wrong,) = data["claims"][1]["parts"]
-    sec = relay_report.sections[1]
+    sec = demo_report.sections[1]
     for got, cex in zip(wrong["counterexamples"], sec.counterexamples):
         assert {k: fraction(v) for k, v in got["point"].items()} == dict(cex.point)
         assert fraction(got["difference"]) == cex.difference
@@ -90,9 +90,9 @@ def test_json_round_trips_exactly(relay_report):
     assert not any(isinstance(v, float) for v in leaves(data))
 
 
-def test_latex_has_one_cases_environment_per_side(relay_report):
-    tex = render_latex(relay_report)
-    sides = sum(len(s.labels) for s in relay_report.sections)
+def test_latex_has_one_cases_environment_per_side(demo_report):
+    tex = render_latex(demo_report)
+    sides = sum(len(s.labels) for s in demo_report.sections)
     assert tex.count("\\begin{cases}") == sides == tex.count("\\end{cases}")
     assert "\\alpha" in tex and "\\begin{tabular}" in tex
 
@@ -115,7 +115,7 @@ def test_default_caution_is_the_engine_one():
 
 def test_cli_report_json_and_exit_code(tmp_path):
     out = tmp_path / "r.json"
-    proc = subprocess.run([sys.executable, "-m", "workbench", "report", str(RELAY), "--claim", RELAY_WRONG,
+    proc = subprocess.run([sys.executable, "-m", "workbench", "report", str(DEMO), "--claim", DEMO_WRONG,
                            "--format", "json", "--out", str(out)], capture_output=True, text=True)
     assert proc.returncode == 1, proc.stderr  # refuted, as `check` (workbench/exit_codes.py)
     assert proc.stderr == ""  # no progress bar when stderr is not a terminal

@@ -6,7 +6,7 @@ a notebook gets rich output by asking for it:
     from workbench.notebook import show
     show(prove(claim))                  # a verifier.prove.Verdict
     show(decide(case_claim))            # a workbench.decide.Outcome (claims of case files)
-    show(run_case("casebook/demo/relay_manuscript.toml"))   # a whole case (workbench.casebook_cmd)
+    show(run_case("casebook/demo/cache_downlink_manuscript.toml"))   # a whole case (workbench.casebook_cmd)
 
 Every number is printed as an exact fraction, as everywhere else in the tool.  Expressions use
 verifier.latex_out when it is present and otherwise the plain-text form set in math mode.
