@@ -1,7 +1,9 @@
 """Thresholds: the hyperplanes where one regime hands over to another, and 1-D slice breakpoints.
 
 Why: papers state regimes by their boundaries ("for alpha <= 1/2 ...", "when gamma = 2 alpha");
-these are the facets shared by two regimes.  Two convex pieces A, B of different regimes are
+these are the facets shared by two regimes.  Candidates are found by hashing each polytope's
+normalised facet hyperplanes, so only pieces with a facet on the same hyperplane are ever compared,
+and a cheap exact box test (computed once per piece and hyperplane) rejects most of those pairs.  Two convex pieces A, B of different regimes are
 adjacent through h = 0 when h is among the irredundant constraints of both and the closures meet in a
 set of dimension dim(A) - 1 lying in h = 0 (an exact shape computation, not a picture).
 A slice fixes all parameters but one to rationals and lists, per compared expression, the exact
@@ -35,23 +37,29 @@ def equation_text(form: Affine) -> str:
     return atom_text(form, "==").replace(" == ", " = ")
 
 
-def _apart(a, b, h: Affine, names) -> bool:
-    """Quick exact rejection: bounded facets on h = 0 whose bounding boxes do not meet."""
-    if not (a.bounded and b.bounded):
+def _facet_box(p, h: Affine, names):
+    """Bounding box of the closure's vertices on h = 0 (None: unbounded polytope, box unknown;
+    () : no vertex on h, so a bounded polytope has no facet there).  Computed once per polytope and
+    hyperplane, so comparing many pairs costs only comparisons."""
+    if not p.bounded:
+        return None
+    on = [v for v in p.vertices if h.const + sum(c * v[n] for n, c in h.coeffs) == 0]
+    if not on:
+        return ()
+    return tuple((min(v[n] for v in on), max(v[n] for v in on)) for n in names)
+
+
+def _apart(box_a, box_b) -> bool:
+    """Quick exact rejection: bounded facets on the same hyperplane whose boxes do not meet."""
+    if box_a is None or box_b is None:
         return False
-    on = lambda v: h.const + sum(c * v[n] for n, c in h.coeffs) == 0  # noqa: E731
-    fa = [v for v in a.vertices if on(v)]
-    fb = [v for v in b.vertices if on(v)]
-    if not fa or not fb:
+    if box_a == () or box_b == ():
         return True
-    return any(max(min(v[n] for v in fa), min(v[n] for v in fb)) >
-               min(max(v[n] for v in fa), max(v[n] for v in fb)) for n in names)
+    return any(max(lo_a, lo_b) > min(hi_a, hi_b) for (lo_a, hi_a), (lo_b, hi_b) in zip(box_a, box_b))
 
 
 def _adjacent(a, b, h: Affine, names) -> bool:
     """Do the closures of a and b meet in a set of dimension dim(a) - 1 inside h = 0?"""
-    if _apart(a, b, h, names):
-        return False
     meet = [x.relaxed() for x in a.polyhedron.atoms + b.polyhedron.atoms]
     if a.dim < len(names):
         meet += [Atom(h, False), Atom(h, False).negated().relaxed()]
@@ -89,14 +97,19 @@ def thresholds(regimes: Sequence, names: Sequence[str], budget=None) -> tuple[Th
     for h, owners in planes.items():
         if budget is not None:
             budget.check("thresholds")
+        if len({r for r, _, _ in owners}) < 2:
+            continue
+        boxes = [_facet_box(p, h, names) for _, p, _ in owners]
         pairs = set()
         for i, (ra, pa, sa) in enumerate(owners):
             if budget is not None:
                 budget.check("thresholds")
-            for rb, pb, sb in owners[i + 1:]:
+            for j in range(i + 1, len(owners)):
+                rb, pb, sb = owners[j]
                 key = (min(ra, rb), max(ra, rb))
-                if ra != rb and key not in pairs and (sa != sb or pa.dim < len(names)) \
-                        and _adjacent(pa, pb, h, names):
+                if ra == rb or key in pairs or not (sa != sb or pa.dim < len(names)):
+                    continue
+                if not _apart(boxes[i], boxes[j]) and _adjacent(pa, pb, h, names):
                     pairs.add(key)
         if pairs:
             out.append(Threshold(h, equation_text(h), tuple(sorted(pairs))))
