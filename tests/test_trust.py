@@ -228,3 +228,22 @@ def test_bundle_obligations_are_answered_the_same_by_z3_reading_smtlib(tmp_path,
         solver = z3.Solver()
         solver.from_string(text)
         assert solver.check() == z3.unsat, f.name
+
+
+def test_a_wrong_certificate_from_the_engine_is_caught_and_never_proves(monkeypatch):
+    # Simulate an engine defect: every cell certificate gets a wrong Farkas constant.  The region-wise
+    # method must then say unknown (loudly), whichever checker looks at it.
+    from dataclasses import replace
+    import verifier.regime_work as work
+    from verifier.lp_farkas import Farkas
+    real = work.certify
+
+    def broken(*args, **kw):
+        cert = real(*args, **kw)
+        return None if cert is None else replace(cert, farkas=tuple(Farkas(f.const + 1, f.mult)
+                                                                    for f in cert.farkas))
+    monkeypatch.setattr(work, "certify", broken)
+    claim = relation(W, "<=", 1, parse_region("alpha >= 0"))
+    proof = prove_by_regimes(claim, smt="none")
+    assert proof.status == UNKNOWN and "CERTIFICATE CHECK FAILED" in proof.detail
+    assert prove_by_regimes(claim).status == PROVED      # the one-shot query still proves it (rule 3)

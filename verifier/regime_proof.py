@@ -35,6 +35,7 @@ from typing import Callable, Mapping
 
 from .analysis import Gap, PartReport, max_gap, part_reports
 from .budget import Budget, OutOfBudget
+from .certificates import check_certificate
 from .claims import Claim, witness_of
 from .errors import RegionError
 from .failure import FailureRegion, failure_region
@@ -248,6 +249,13 @@ def _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, worke
         checked, why = _independent_check(claim, spec, regimes)
         if checked is False:
             status, detail = UNKNOWN, "; ".join(x for x in (detail, why) if x)
+    if checked is None:       # not re-checked as a whole: check each certificate here
+        bad = sorted({r.index for r in regimes for c in r.certificates if not check_certificate(c)})
+        if bad:
+            why = (f"CERTIFICATE CHECK FAILED in regimes {', '.join(map(str, bad))}: an engine defect, "
+                   "please report it")
+            status = UNKNOWN if status == PROVED else status
+            detail = "; ".join(x for x in (detail, why) if x)
     agree = None
     if verdict is not None:
         smt_refutes = verdict.status == REFUTED
@@ -287,7 +295,7 @@ def _independent_check(claim, spec, regimes):
     if not data["complete"]:
         return None, data["incomplete"]
     try:
-        check(json.loads(json.dumps(data)))
+        check(json.loads(json.dumps(data)))   # exactly what a bundle's reader gets
     except Bad as exc:
         return False, (f"CERTIFICATE CHECK FAILED: the independent checker rejects the region-wise proof "
                        f"({exc}); an engine defect, please report it")

@@ -2,7 +2,9 @@
 
 Why per cell and exact: on a cell every compared expression is one affine form, so each obligation of
 the claim is a single affine inequality.  Its Farkas certificate (from the cell's generators) is
-re-checked by the independent checker before the cell counts as certified; if no certificate exists,
+re-checked once the whole proof is assembled (regime_proof: the standalone checker for a proved
+claim, certificates.check_certificate for the proved regimes of any other), never taken on trust;
+if no certificate exists,
 the failure polyhedron cell & {not obligation} is non-empty by construction and the cell is refuted
 there.  A cell where neither happens (it should not) is 'unknown' and goes to the SMT backend
 restricted to it, as does every cell when SMT per regime is asked for.
@@ -18,7 +20,7 @@ from functools import cached_property
 from typing import Mapping
 
 from .cell_proof import with_certificates
-from .certificates import Certificate, certify, check_certificate, pack, unpack
+from .certificates import Certificate, certify, pack, unpack
 from .expr import Affine
 from .failure import FailurePiece, failure_piece, violations
 from .regime_geometry import Polytope
@@ -76,7 +78,7 @@ class CellVerdict:
 def _verdict(spec: Spec, options: Mapping, atoms, forms, pieces) -> CellVerdict:
     names = spec.names
     cert = certify(spec, atoms, forms, pieces, names) if pieces is not None else None
-    if cert is not None and check_certificate(cert):
+    if cert is not None:   # re-checked once the proof is whole (regime_proof: standalone checker)
         return CellVerdict(PROVED, cert, ())
     bad = violations(spec, atoms, forms, names)
     if not bad:
