@@ -196,42 +196,61 @@ def affine_pieces(exprs: Sequence[Expr], atoms: Sequence[Atom], names: Sequence[
     return tuple(f for f, _ in got), tuple(p for _, p in got)
 
 
-def with_certificates(e: Expr, piece: Piece, atoms: Sequence[Atom], names: Sequence[str], cone=None):
+def with_certificates(e: Expr, piece: Piece, atoms: Sequence[Atom], names: Sequence[str], cone=None,
+                      memo: dict | None = None):
     """(form, the same proof with every Farkas certificate filled in) or None if one fails.
 
     With the cell's `cone` (built from exactly `atoms`) certificates come from its generators
-    (lp_farkas.farkas_by_cone), else from a full LP."""
+    (lp_farkas.farkas_by_cone), else from a full LP.  `memo` (one per cell) certifies a shared
+    subproof once: the prover's memo makes equal subexpressions share one Piece object, and
+    memo["numbers"] (number_nodes of the expressions, when given) identifies equal subexpressions."""
+    memo = {} if memo is None else memo
+    numbers = memo.get("numbers", {})
+    key = ("p", numbers.get(id(e), id(e)), id(piece))
+    if key not in memo:
+        memo[key] = _with_certificates(e, piece, atoms, names, cone, memo)
+    return memo[key]
+
+
+def _with_certificates(e, piece, atoms, names, cone, memo):
     if piece.kind == "affine":
         return e, piece
     if piece.kind == "sum":
         total, subs = e.affine, []
         for t, sub in zip(e.terms, piece.subs):
-            got = with_certificates(t, sub, atoms, names, cone)
+            got = with_certificates(t, sub, atoms, names, cone, memo)
             if got is None:
                 return None
             total = combine(total, got[0])
             subs.append(got[1])
         return total, Piece("sum", tuple(subs))
-    got = with_certificates(e.args[piece.index], piece.subs[0], atoms, names, cone)
+    got = with_certificates(e.args[piece.index], piece.subs[0], atoms, names, cone, memo)
     if got is None:
         return None
     g, sub = got
     others = [a for i, a in enumerate(e.args) if i != piece.index]
-    bounds = [_bound_certified(a, g, isinstance(e, Min), b, atoms, names, cone)
+    bounds = [_bound_certified(a, g, isinstance(e, Min), b, atoms, names, cone, memo)
               for a, b in zip(others, piece.bounds)]
     if any(b is None for b in bounds):
         return None
     return g, Piece("extremum", (sub,), piece.index, tuple(bounds))
 
 
-def _bound_certified(e, g, ge, b: Bound, atoms, names, cone):
+def _bound_certified(e, g, ge, b: Bound, atoms, names, cone, memo):
+    key = ("b", memo.get("numbers", {}).get(id(e), id(e)), id(b), g, ge)
+    if key not in memo:
+        memo[key] = _bound_certified_once(e, g, ge, b, atoms, names, cone, memo)
+    return memo[key]
+
+
+def _bound_certified_once(e, g, ge, b: Bound, atoms, names, cone, memo):
     if b.kind == "one":
-        sub = _bound_certified(e.args[b.index], g, ge, b.subs[0], atoms, names, cone)
+        sub = _bound_certified(e.args[b.index], g, ge, b.subs[0], atoms, names, cone, memo)
         return None if sub is None else Bound("one", (sub,), b.index)
     if b.kind == "all":
-        subs = [_bound_certified(a, g, ge, s, atoms, names, cone) for a, s in zip(e.args, b.subs)]
+        subs = [_bound_certified(a, g, ge, s, atoms, names, cone, memo) for a, s in zip(e.args, b.subs)]
         return None if any(s is None for s in subs) else Bound("all", tuple(subs))
-    got = with_certificates(e, b.piece, atoms, names, cone)
+    got = with_certificates(e, b.piece, atoms, names, cone, memo)
     if got is None:
         return None
     f, piece = got
@@ -239,8 +258,9 @@ def _bound_certified(e, g, ge, b: Bound, atoms, names, cone):
     reuse = b.cert is not None and not b.cert.mult  # a constant certificate holds on any cell
     if reuse:
         cert = b.cert
-    elif cone is not None:
-        cert = farkas_by_cone(diff, atoms, cone)
+    elif ("f", diff) in memo:
+        cert = memo[("f", diff)]
     else:
-        cert = farkas(diff, atoms, names, strict=False)
+        cert = farkas_by_cone(diff, atoms, cone) if cone is not None else farkas(diff, atoms, names, strict=False)
+        memo[("f", diff)] = cert
     return None if cert is None else Bound("farkas", piece=piece, cert=cert)

@@ -176,8 +176,23 @@ def primed(name: str) -> str:
     return name + "'"
 
 
+def _cached(claim: Claim, key: str, make):
+    """Per-claim memo of derived data (claims are immutable; re-checks call these in loops)."""
+    memo = claim.__dict__.get("_memo")
+    if memo is None:
+        memo = {}
+        object.__setattr__(claim, "_memo", memo)
+    if key not in memo:
+        memo[key] = make()
+    return memo[key]
+
+
 def compared_exprs(claim: Claim) -> tuple[Expr, Expr]:
     """The two expressions whose comparison is the claim, over the witness variables."""
+    return _cached(claim, "compared", lambda: _compared_exprs(claim))
+
+
+def _compared_exprs(claim: Claim) -> tuple[Expr, Expr]:
     if claim.kind in ("relation", "within"):
         return claim.lhs.expr, claim.rhs.expr
     if claim.kind == "monotone":
@@ -191,6 +206,10 @@ def compared_exprs(claim: Claim) -> tuple[Expr, Expr]:
 
 def witness_region(claim: Claim) -> Region:
     """Where witnesses live: the region, its restriction, or (monotone) pairs of region points."""
+    return _cached(claim, "witness_region", lambda: _witness_region(claim))
+
+
+def _witness_region(claim: Claim) -> Region:
     if claim.kind == "reduces-to":
         return claim.region.substitute(dict(claim.values))
     if claim.kind != "monotone":
@@ -202,6 +221,10 @@ def witness_region(claim: Claim) -> Region:
 
 
 def violation_conditions(claim: Claim) -> tuple[tuple[Expr, str, Expr], ...]:
+    return _cached(claim, "conditions", lambda: _violation_conditions(claim))
+
+
+def _violation_conditions(claim: Claim) -> tuple[tuple[Expr, str, Expr], ...]:
     left, right = compared_exprs(claim)
     if claim.kind == "relation":
         return ((left, NEGATED[claim.rel], right),)

@@ -37,6 +37,10 @@ class Spec:
     increasing: bool = True
     parts: tuple[tuple[int, str, Expr], ...] = ()  # (side index, part name, expression)
 
+    def __getstate__(self):
+        """Pickle without per-process caches (regime_work keeps node numbers keyed by object id)."""
+        return {k: v for k, v in self.__dict__.items() if not k.startswith("_")}
+
 
 def spec_of(claim: Claim) -> Spec:
     left, right = compared_exprs(claim)

@@ -94,9 +94,9 @@ def finish_cell(cell: Cell, spec: Spec, options: Mapping, index: tuple[int, ...]
     certificate holds the certified ones); with `ship` (the cell travels back from a worker) the
     certificate travels packed (see received_certificate)."""
     forms = tuple(cell.forms[i] for i in index)
-    pieces = []
+    pieces, memo = [], {"numbers": _numbers(spec)}
     for e, i in zip(spec.exprs, index):
-        got = with_certificates(e, cell.proofs[i], cell.atoms, spec.names, cell.cone)
+        got = with_certificates(e, cell.proofs[i], cell.atoms, spec.names, cell.cone, memo)
         if got is None:
             pieces = None
             break
@@ -110,6 +110,16 @@ def finish_cell(cell: Cell, spec: Spec, options: Mapping, index: tuple[int, ...]
                     farkas=tuple(pack(f, memo) for f in c.farkas))
         verdict = replace(verdict, certificate=c)
     return replace(cell, proofs=(), extra=verdict)
+
+
+def _numbers(spec: Spec) -> dict:
+    """number_nodes of the spec's expressions, computed once per spec (and per worker process)."""
+    got = spec.__dict__.get("_numbers")
+    if got is None:
+        from .cell_proof import number_nodes
+        got = number_nodes(spec.exprs)
+        object.__setattr__(spec, "_numbers", got)
+    return got
 
 
 def received_certificate(c: Certificate, exprs) -> Certificate:
