@@ -199,3 +199,45 @@ def test_parallel_workers_give_the_same_report_in_the_same_order():
 def test_empty_region_is_an_input_error():
     with pytest.raises(RegionError):
         prove_by_regimes(relation(a, "<=", 1, Region.of(*atoms_of(a, ">", 1), *atoms_of(a, "<", 0))))
+
+
+def _thresholds_by_lp_only(regimes, names):
+    """Reference: every candidate pair decided by the exact adjacency LP alone (no quick tests)."""
+    from verifier.regimes import normalise
+    from verifier.thresholds import _adjacent
+    planes = {}
+    for r, regime in enumerate(regimes):
+        for p in regime.polytopes:
+            for atom in p.polyhedron.atoms:
+                if atom.form.coeffs:
+                    planes.setdefault(normalise(atom.form), []).append((r, p, atom.form.coeffs[0][1] > 0))
+    out = {}
+    for h, owners in planes.items():
+        pairs = {(min(ra, rb), max(ra, rb)) for i, (ra, pa, sa) in enumerate(owners)
+                 for rb, pb, sb in owners[i + 1:]
+                 if ra != rb and (sa != sb or pa.dim < len(names)) and _adjacent(pa, pb, h, names)}
+        if pairs:
+            out[h] = pairs
+    return out
+
+
+@settings(max_examples=15)
+@given(exprs(names=("alpha", "beta"), max_leaves=6), exprs(names=("alpha", "beta"), max_leaves=6))
+def test_threshold_quick_tests_never_change_the_thresholds(lhs, rhs):
+    # the box, shared-vertex and separating-constraint shortcuts must agree with the plain LP test
+    from verifier.thresholds import thresholds
+    region = Region.of(*atoms_of(a, ">=", -2), *atoms_of(a, "<=", 2), *atoms_of(b, ">=", -2),
+                       *atoms_of(b, "<=", 2))
+    rp = prove_by_regimes(relation(lhs, "<=", rhs, region), smt="none", improve_witness=False)
+    fast = {t.form: set(t.between) for t in thresholds(rp.regimes, rp.names)}
+    assert fast == _thresholds_by_lp_only(rp.regimes, rp.names)
+
+
+def test_threshold_quick_tests_on_a_chain_of_six():
+    from verifier.thresholds import thresholds
+    xs = [param(f"x{i}") for i in range(1, 5)]
+    f = max_(xs[0] - xs[1], xs[1] - xs[0]) + max_(xs[1] - xs[2], xs[2] - xs[1]) + max_(xs[2] - xs[3], xs[3] - xs[2])
+    region = Region.of(*(x for v in xs for x in atoms_of(v, ">=", 0) + atoms_of(v, "<=", 1)))
+    rp = prove_by_regimes(relation(f, "<=", 3, region), smt="none", improve_witness=False)
+    fast = {t.form: set(t.between) for t in thresholds(rp.regimes, rp.names)}
+    assert fast == _thresholds_by_lp_only(rp.regimes, rp.names) and len(fast) == 3

@@ -2,8 +2,9 @@
 
 Why: papers state regimes by their boundaries ("for alpha <= 1/2 ...", "when gamma = 2 alpha");
 these are the facets shared by two regimes.  Candidates are found by hashing each polytope's
-normalised facet hyperplanes, so only pieces with a facet on the same hyperplane are ever compared,
-and a cheap exact box test (computed once per piece and hyperplane) rejects most of those pairs.  Two convex pieces A, B of different regimes are
+normalised facet hyperplanes, so only pieces with a facet on the same hyperplane are ever compared;
+a cheap exact box test (computed once per piece and hyperplane) rejects most of those pairs, and
+shared vertices spanning the facet accept most of the rest, before any LP.  Two convex pieces A, B of different regimes are
 adjacent through h = 0 when h is among the irredundant constraints of both and the closures meet in a
 set of dimension dim(A) - 1 lying in h = 0 (an exact shape computation, not a picture).
 A slice fixes all parameters but one to rationals and lists, per compared expression, the exact
@@ -14,6 +15,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from fractions import Fraction
+from math import gcd
 from typing import Mapping, Sequence
 
 from .expr import Affine, Expr, affine, substitute
@@ -38,15 +40,16 @@ def equation_text(form: Affine) -> str:
 
 
 def _facet_box(p, h: Affine, names):
-    """Bounding box of the closure's vertices on h = 0 (None: unbounded polytope, box unknown;
-    () : no vertex on h, so a bounded polytope has no facet there).  Computed once per polytope and
-    hyperplane, so comparing many pairs costs only comparisons."""
-    if not p.bounded:
-        return None
+    """(bounding box, vertex set) of the closure's vertices on h = 0; box None: unbounded polytope,
+    box unknown; box (): no vertex on h, so a bounded polytope has no facet there.  Computed once per
+    polytope and hyperplane, so comparing many pairs costs only comparisons."""
     on = [v for v in p.vertices if h.const + sum(c * v[n] for n, c in h.coeffs) == 0]
+    verts = frozenset(tuple(v[n] for n in names) for v in on)
+    if not p.bounded:
+        return None, verts
     if not on:
-        return ()
-    return tuple((min(v[n] for v in on), max(v[n] for v in on)) for n in names)
+        return (), verts
+    return tuple((min(v[n] for v in on), max(v[n] for v in on)) for n in names), verts
 
 
 def _apart(box_a, box_b) -> bool:
@@ -56,6 +59,75 @@ def _apart(box_a, box_b) -> bool:
     if box_a == () or box_b == ():
         return True
     return any(max(lo_a, lo_b) > min(hi_a, hi_b) for (lo_a, hi_a), (lo_b, hi_b) in zip(box_a, box_b))
+
+
+def _affine_rank(points) -> int:
+    """Dimension of the affine hull of the points (exact Gaussian elimination)."""
+    points = list(points)
+    if not points:
+        return -1
+    rows = [[x - y for x, y in zip(p, points[0])] for p in points[1:]]
+    rank, col, width = 0, 0, len(points[0])
+    while rank < len(rows) and col < width:
+        pivot = next((r for r in range(rank, len(rows)) if rows[r][col] != 0), None)
+        if pivot is None:
+            col += 1
+            continue
+        rows[rank], rows[pivot] = rows[pivot], rows[rank]
+        for r in range(rank + 1, len(rows)):
+            if rows[r][col] != 0:
+                k = rows[r][col] / rows[rank][col]
+                rows[r] = [x - k * y for x, y in zip(rows[r], rows[rank])]
+        rank, col = rank + 1, col + 1
+    return rank
+
+
+def _share_facet(a, verts_a, verts_b) -> bool:
+    """Quick exact acceptance: vertices common to both facets span a set of dimension dim(a) - 1,
+    so the closures meet in (at least) their convex hull."""
+    common = verts_a & verts_b
+    return len(common) >= a.dim and _affine_rank(common) >= a.dim - 1
+
+
+def _separators(p, h: Affine, names):
+    """The piece's constraints as (coefficient vector, constant), except those parallel to h: any of
+    them that is <= 0 on the other piece's whole facet separates the two facets within h."""
+    hv = [h.coeff(n) for n in names]
+    out = []
+    for atom in p.polyhedron.atoms:
+        v = [atom.form.coeff(n) for n in names]
+        if not _parallel(v, hv):
+            out.append((v, atom.form.const))
+    return out
+
+
+def _parallel(u, w) -> bool:
+    """Are the vectors u and w proportional?"""
+    k = next((i for i, x in enumerate(w) if x != 0), None)
+    if k is None:
+        return True
+    ratio = u[k] / w[k]
+    return all(x == ratio * y for x, y in zip(u, w))
+
+
+def _integer_rows(rows, scale: int):
+    """Separators (v, c) as integer rows (M v, M c scale) with M > 0, for points scaled by `scale`:
+    the sign of v.x + c is the sign of (M v).(scale x) + M c scale."""
+    out = []
+    for v, c in rows:
+        m = 1
+        for q in list(v) + [c]:
+            m = m * q.denominator // gcd(m, q.denominator)
+        out.append(([int(x * m) for x in v], int(c * m * scale)))
+    return out
+
+
+def _separated(rows, verts) -> bool:
+    """Quick exact rejection: a constraint of one piece (valid on its facet) is <= 0 on every vertex
+    of the other (bounded) facet, so the facets meet only inside that constraint's boundary: a set of
+    dimension below the facets' own.  Integer rows and integer-scaled vertices: exact and fast."""
+    return bool(verts) and any(all(sum(c * x for c, x in zip(v, p)) + c0 <= 0 for p in verts)
+                               for v, c0 in rows)
 
 
 def _adjacent(a, b, h: Affine, names) -> bool:
@@ -99,7 +171,15 @@ def thresholds(regimes: Sequence, names: Sequence[str], budget=None) -> tuple[Th
             budget.check("thresholds")
         if len({r for r, _, _ in owners}) < 2:
             continue
-        boxes = [_facet_box(p, h, names) for _, p, _ in owners]
+        facets = [_facet_box(p, h, names) for _, p, _ in owners]
+        scale = 1
+        for _, verts in facets:
+            for v in verts:
+                for x in v:
+                    scale = scale * x.denominator // gcd(scale, x.denominator)
+        scaled = [frozenset(tuple(int(x * scale) for x in v) for v in verts) for _, verts in facets]
+        seps = [_integer_rows(_separators(p, h, names), scale) if p.bounded and p.dim == len(names)
+                else None for _, p, _ in owners]
         pairs = set()
         for i, (ra, pa, sa) in enumerate(owners):
             if budget is not None:
@@ -109,7 +189,13 @@ def thresholds(regimes: Sequence, names: Sequence[str], budget=None) -> tuple[Th
                 key = (min(ra, rb), max(ra, rb))
                 if ra == rb or key in pairs or not (sa != sb or pa.dim < len(names)):
                     continue
-                if not _apart(boxes[i], boxes[j]) and _adjacent(pa, pb, h, names):
+                (box_a, verts_a), (box_b, verts_b) = facets[i], facets[j]
+                if _apart(box_a, box_b):
+                    continue
+                if seps[i] is not None and seps[j] is not None and \
+                        (_separated(seps[i], scaled[j]) or _separated(seps[j], scaled[i])):
+                    continue
+                if _share_facet(pa, verts_a, verts_b) or _adjacent(pa, pb, h, names):
                     pairs.add(key)
         if pairs:
             out.append(Threshold(h, equation_text(h), tuple(sorted(pairs))))
