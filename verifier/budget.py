@@ -30,6 +30,17 @@ class OutOfBudget(Exception):
         return (OutOfBudget, (self.stage, self.seconds))
 
 
+class TooLarge(OutOfBudget):
+    """A stage would exceed a size limit (memory, not time); handled like a spent budget: unknown."""
+
+    def __init__(self, stage: str, size: int, limit: int):
+        self.stage, self.seconds, self.size, self.limit = stage, 0.0, size, limit
+        Exception.__init__(self, f"stage '{stage}' exceeds its size limit ({size} > {limit})")
+
+    def __reduce__(self):
+        return (TooLarge, (self.stage, self.size, self.limit))
+
+
 @dataclass(frozen=True)
 class Budget:
     """`seconds` for the whole claim from `start`; `query_timeout` caps each solver query."""

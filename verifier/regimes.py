@@ -28,6 +28,8 @@ from .lp_vertices import Cone
 from .lp_shape import difference, shape
 from .region import Atom, Region
 
+MAX_CELLS = 50_000   # each cell keeps its cone generators: beyond this, memory rather than time runs out
+
 
 @dataclass(frozen=True)
 class Cell:
@@ -117,6 +119,9 @@ def refine(tasks, targets: Sequence[Expr], names: Sequence[str], seconds: float 
     while stack and (seconds is None or time.perf_counter() - start < seconds):
         if budget is not None:
             budget.check("regime decomposition")
+        if len(cells) + len(stack) > MAX_CELLS:
+            from .budget import TooLarge
+            raise TooLarge("regime decomposition (cells)", len(cells) + len(stack), MAX_CELLS)
         got = _step(stack.pop(), targets, names, numbers)
         if isinstance(got, Cell):
             cells.append(finish(got) if finish is not None else got)
@@ -163,6 +168,9 @@ def decompose(targets: Sequence[Expr], region: Region, names: Sequence[str], poo
         cells = []
         for t in tasks:
             cells += refine([t], targets, names, finish=finish, budget=budget)
+            if len(cells) > MAX_CELLS:
+                from .budget import TooLarge
+                raise TooLarge("regime decomposition (cells)", len(cells), MAX_CELLS)
             if progress:
                 progress("cells", len(cells), len(cells))
         return sorted(cells, key=lambda c: c.key_point(names))
@@ -177,6 +185,9 @@ def decompose(targets: Sequence[Expr], region: Region, names: Sequence[str], poo
         done, running = wait(running, return_when=FIRST_COMPLETED)
         if budget is not None:
             budget.check("regime decomposition")
+        if len(cells) > MAX_CELLS:
+            from .budget import TooLarge
+            raise TooLarge("regime decomposition (cells)", len(cells), MAX_CELLS)
         for fut in done:
             got, pending = fut.result()
             cells += got
