@@ -14,16 +14,17 @@ from verifier.errors import InputError
 from verifier.expr import Expr
 
 from .fragment import named_outer_bounds
-from .network import from_mapping
+from .network import NETWORK_KEYS, check_keys, from_mapping
 
 
 def network_outer_bounds(table: Mapping, parameter_names: Iterable[str] | None = None) -> dict[str, Expr]:
     """{identifier: Expr} of the cut-set bounds of the network described by `table`."""
     if not isinstance(table, Mapping):
         raise InputError("[network] must be a table with nodes, links and messages")
+    check_keys(table, NETWORK_KEYS + ("target",))
     body = {k: v for k, v in table.items() if k != "target"}
     target = table.get("target")
     if target is not None and (not isinstance(target, list) or not all(isinstance(t, str) for t in target)):
-        raise InputError("network.target must be a list of message names")
+        raise InputError("target: expected an array of message names in quotes")
     network = from_mapping(body, parameter_names)
     return {key: expr for key, (_, expr) in named_outer_bounds(network, target).items()}

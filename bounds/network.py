@@ -19,6 +19,10 @@ from verifier.errors import InputError
 from verifier.expr import Expr, lift, params as expr_params
 
 ROLES = ("transmitter", "receiver", "relay")
+# Largest number of nodes: GDoF networks in papers have a handful, and every cut costs a matrix of
+# (senders x listeners) look-ups, so thousands of nodes would take minutes per bound for nothing.
+# (Relays are limited far more tightly by bounds.cutset.MAX_CUTS: each one doubles the cuts.)
+MAX_NODES = 256
 
 
 def to_expr(value, what: str = "exponent", names: Iterable[str] | None = None) -> Expr:
@@ -81,6 +85,8 @@ class Network:
     def _check_nodes(self) -> None:
         if not self.nodes:
             raise InputError("a network needs at least one node")
+        if len(self.nodes) > MAX_NODES:
+            raise InputError(f"the network has {len(self.nodes)} nodes (limit {MAX_NODES})")
         for name, role in self.nodes.items():
             if not isinstance(name, str) or not name:
                 raise InputError(f"node name {name!r} must be a non-empty string")
@@ -154,41 +160,90 @@ class Network:
 # loading from a case-file table
 # ---------------------------------------------------------------------------------------------
 
+NETWORK_KEYS = ("nodes", "links", "messages")
+MESSAGE_KEYS = ("name", "source", "destination")
+
+
+def _kind(value) -> str:
+    """How a message names a TOML value's type."""
+    if isinstance(value, bool):
+        return "a boolean"
+    if isinstance(value, (int, float, Fraction)):
+        return "a number"
+    return {str: "a string", list: "an array", tuple: "an array", dict: "a table"}.get(type(value),
+                                                                                      type(value).__name__)
+
+
+def check_keys(table: Mapping, allowed, where: str = "") -> None:
+    """Refuse keys a table does not have, suggesting the closest one (a typo must not be ignored)."""
+    import difflib
+    for key in table:
+        if key not in allowed:
+            close = difflib.get_close_matches(str(key), allowed, n=1)
+            hint = f"did you mean '{close[0]}'?" if close else f"allowed: {', '.join(allowed)}"
+            raise InputError(f"{where}{key}: unknown key ({hint})")
+
+
 def from_mapping(table: Mapping, names: Iterable[str] | None = None) -> Network:
     """Network from {nodes = {S = "transmitter", ...}, links = [["S", "D", "alpha"], ...], messages = [...]}.
 
     A message is ["W", "S", "D"] or {name = "W", source = "S", destination = "D"}.  Exponents are numbers
-    or text in the tool's expression syntax; `names` restricts the parameters text may use.
+    or text in the tool's expression syntax; `names` restricts the parameters text may use.  Every value
+    is type-checked here, so a wrong shape in a case file is an error naming the key, never a crash.
     """
     if not isinstance(table, Mapping):
         raise InputError("a network table must be a mapping with keys nodes, links, messages")
-    unknown = set(table) - {"nodes", "links", "messages"}
-    if unknown:
-        raise InputError(f"network table: unknown key(s) {', '.join(sorted(unknown))}")
+    check_keys(table, NETWORK_KEYS, "")
     nodes = table.get("nodes")
     if not isinstance(nodes, Mapping):
-        raise InputError("network table: 'nodes' must be a table of name = role")
-    links = [_link_from(i, item, names) for i, item in enumerate(table.get("links", []))]
-    messages = [_message_from(i, item) for i, item in enumerate(table.get("messages", []))]
+        raise InputError(f"nodes: expected a table of name = role, found {_kind(nodes)}"
+                         if nodes is not None else "nodes: missing (a table of name = role)")
+    for name, role in nodes.items():
+        if not isinstance(role, str):
+            raise InputError(f"nodes.{name}: expected a role in quotes ({', '.join(ROLES)}), "
+                             f"found {_kind(role)}")
+    links, messages = table.get("links", []), table.get("messages", [])
+    for key, value, shape in (("links", links, "[tx, rx, exponent]"),
+                              ("messages", messages, "[name, source, destination]")):
+        if not isinstance(value, (list, tuple)):
+            raise InputError(f"{key}: expected an array of {shape}, found {_kind(value)}")
+    links = [_link_from(i, item, names) for i, item in enumerate(links)]
+    messages = [_message_from(i, item) for i, item in enumerate(messages)]
     return Network(nodes, links, messages)
+
+
+def _node_name(value, where: str, role: str = "node") -> str:
+    if not isinstance(value, str):
+        what = "a message name" if role == "name" else "a node name"
+        raise InputError(f"{where}: expected {what} in quotes, found {_kind(value)}")
+    return value
 
 
 def _link_from(index: int, item, names) -> Link:
     if not isinstance(item, (list, tuple)) or len(item) != 3:
-        raise InputError(f"links[{index}]: expected [tx, rx, exponent], got {item!r}")
+        found = f"an array of {len(item)}" if isinstance(item, (list, tuple)) else _kind(item)
+        raise InputError(f"links[{index}]: expected [tx, rx, exponent], found {found}")
     tx, rx, exp = item
-    return Link(str(tx), str(rx), to_expr(exp, f"links[{index}] exponent", names))
+    if isinstance(exp, bool) or not isinstance(exp, (str, int, Fraction, float, Expr)):
+        raise InputError(f"links[{index}]: the exponent must be a number or an expression in quotes, "
+                         f"found {_kind(exp)}")
+    return Link(_node_name(tx, f"links[{index}][0]"), _node_name(rx, f"links[{index}][1]"),
+                to_expr(exp, f"links[{index}] exponent", names))
 
 
 def _message_from(index: int, item) -> Message:
+    where = f"messages[{index}]"
     if isinstance(item, Mapping):
-        missing = {"name", "source", "destination"} - set(item)
+        check_keys(item, MESSAGE_KEYS, f"{where}.")
+        missing = [k for k in MESSAGE_KEYS if k not in item]
         if missing:
-            raise InputError(f"messages[{index}]: missing {', '.join(sorted(missing))}")
-        return Message(str(item["name"]), str(item["source"]), str(item["destination"]))
+            raise InputError(f"{where}: missing {', '.join(missing)}")
+        return Message(*(_node_name(item[k], f"{where}.{k}", k) for k in MESSAGE_KEYS))
     if isinstance(item, (list, tuple)) and len(item) == 3:
-        return Message(*(str(x) for x in item))
-    raise InputError(f"messages[{index}]: expected [name, source, destination], got {item!r}")
+        return Message(*(_node_name(x, f"{where}[{k}]", MESSAGE_KEYS[k]) for k, x in enumerate(item)))
+    found = f"an array of {len(item)}" if isinstance(item, (list, tuple)) else _kind(item)
+    raise InputError(f"{where}: expected [name, source, destination] or a table with name, source and "
+                     f"destination, found {found}")
 
 
 # ---------------------------------------------------------------------------------------------

@@ -7,7 +7,7 @@
         assert_claim("w nondecreasing in alpha", where="alpha >= 1",
                      definitions={"w": "min(1, max(alpha/2, 1 - alpha/2), max(alpha, 1 - alpha))"})
         assert_claim("w == 1 - alpha", where="alpha <= 2/3", definitions=..., expect="refuted")
-        assert_case("casebook/demo/relay_manuscript.toml")
+        assert_case("casebook/demo/cache_downlink_manuscript.toml")
 
 Why an AssertionError carrying text, not a verdict object: pytest prints the message as the failure, so
 the message holds what a reader needs to re-check the failure by hand: the exact point and both sides'
@@ -24,7 +24,7 @@ from pathlib import Path
 from typing import Iterable, Mapping
 
 from verifier import claims as C
-from verifier.errors import CaseFileError, InputError
+from verifier.errors import CaseFileError, InputError, UnknownNameError
 from verifier.expr import Expr, params, substitute
 from verifier.parse import parse_expr, parse_region
 from verifier.prove import Verdict, prove
@@ -33,7 +33,7 @@ from verifier.region import Region
 from . import verdict_text as vt
 from .casebook_cmd import CaseRun, run_case
 from .casefile import VERDICTS
-from .statements import Part, parse_sentence, shifted
+from .statements import Part, check_notation, did_you_mean, explained, listing, parse_sentence, shifted
 
 
 def assert_claim(statement_or_claim, region=None, names: Iterable[str] | None = None, *,
@@ -43,9 +43,10 @@ def assert_claim(statement_or_claim, region=None, names: Iterable[str] | None = 
     """Decide a claim and fail (AssertionError) unless its verdict is `expect`; returns the Verdict.
 
     `statement_or_claim`: a verifier.claims.Claim, or a claim sentence.  For a sentence, `region`
-    (a Region or text) and `where` (text) both restrict the claim; `names` lists the parameters (typos
-    become errors; default: every name not in `definitions`); `definitions` maps names to expressions
-    (text or Expr) that the sentence may use, like the [formulas] of a case file.
+    (a Region or text) and `where` (text) both restrict the claim; `names` lists the parameters (default:
+    those of the region, `where` and `definitions`; any other name is an error, never a new variable);
+    `definitions` maps names to expressions (text or Expr) that the sentence may use, like the
+    [formulas] of a case file.
     """
     if expect not in VERDICTS:
         raise InputError(f"expect must be one of {', '.join(VERDICTS)}, not '{expect}'")
@@ -133,19 +134,32 @@ def claim_from_text(text: str, region=None, names: Iterable[str] | None = None, 
                     definitions: Mapping[str, object] | None = None, name: str = "") -> C.Claim:
     """The Claim that a sentence states over `region` (and `where`), with `definitions` substituted."""
     names = None if names is None else list(names)
-    defs = _definitions(definitions or {}, names)
-    known = None if names is None else names + list(defs)
     area = _region(region, where, names)
     s = parse_sentence(text)
+    stated = [p for p in [s.param, *s.swap, *(n for n, _ in s.values)] if p]
+    definitions = definitions or {}
+    if names is None:   # undeclared: the names of the region, the sentence and the definitions only
+        declared = set(area.params()) | set(definitions)
+        for value in definitions.values():
+            declared |= params(value) if isinstance(value, Expr) else set()
+        defs = _definitions(definitions, sorted(declared | set(stated)), True)
+        known = sorted(declared | set(stated))
+    else:
+        defs = _definitions(definitions, names)
+        declared, known = set(names), names + list(defs)
+    unknown = _unknown(known, names is None)
 
     def side(part: Part) -> C.Side:
         try:
+            check_notation(part.text)
             expr = parse_expr(part.text, known)
         except InputError as err:
-            raise shifted(err, part, text) from None
+            raise shifted(explained(err, unknown), part, text) from None
         return C.Side(_resolve(expr, defs), part.text if part.text in defs else "")
 
     _check_names(s, names, text)
+    if names is None:   # 'nondecreasing in alhpa': a name only the sentence mentions must occur in it
+        _check_stated(s, stated, declared, side, text)
     if s.kind == "relation":
         return C.relation(side(s.lhs), s.rel, side(s.rhs), area, name)
     if s.kind == "within":
@@ -156,6 +170,29 @@ def claim_from_text(text: str, region=None, names: Iterable[str] | None = None, 
         return C.symmetric(side(s.lhs), s.swap[0], s.swap[1], area, name)
     values = {n: side(v).expr for n, v in s.values}
     return C.reduces_to(side(s.lhs), values, side(s.rhs), area, name)
+
+
+def _unknown(known, undeclared: bool):
+    """explain() for a name outside `known`: a typo is not a new free variable (it would be refuted)."""
+    def explain(name: str) -> str:
+        how = ("declare the parameters with names=[...] or give them a region or where"
+               if undeclared else f"known: {listing(known)}")
+        close = did_you_mean(name, known).strip(" ()")
+        return f"unknown parameter '{name}' ({how}" + (f"; {close})" if close else ")")
+    return explain
+
+
+def _check_stated(s, stated, declared, side, text) -> None:
+    """A parameter named only by the sentence (`in p`, `with p = v`) must occur in its expressions."""
+    parts = [p for p in (s.lhs, s.rhs) if p is not None]
+    used = set()
+    for part in parts:
+        used |= params(side(part).expr)
+    for p in stated:
+        if p not in declared and p not in used:
+            close = did_you_mean(p, sorted(declared | used)).strip(" ()")
+            raise UnknownNameError(f"'{p}' occurs nowhere in the claim or its region"
+                                   + (f" ({close})" if close else ""), text, text.find(p))
 
 
 def _check_names(s, names, text) -> None:
@@ -179,11 +216,19 @@ def _region(region, where, names) -> Region:
     return out
 
 
-def _definitions(definitions: Mapping[str, object], names) -> dict[str, Expr]:
+def _definitions(definitions: Mapping[str, object], names, undeclared: bool = False) -> dict[str, Expr]:
     known = None if names is None else list(names) + list(definitions)
     out = {}
     for key, value in definitions.items():
-        out[key] = value if isinstance(value, Expr) else parse_expr(str(value), known)
+        if isinstance(value, Expr):
+            out[key] = value
+            continue
+        try:
+            check_notation(str(value))
+            out[key] = parse_expr(str(value), known)
+        except InputError as err:
+            err = explained(err, _unknown(known, undeclared)) if known is not None else err
+            raise type(err)(f"definitions['{key}']: {err.message}", err.source, err.position) from None
     return out
 
 

@@ -145,12 +145,15 @@ def _swap_in(new: Path, out: Path) -> None:
 
 
 def run(args) -> int:
+    from .output_target import check_bundle_target, write_error
+    check_bundle_target(args.outdir, args.case, args.force)  # refuse before the long proof, not after
     case = load_case(args.case, args.solver, args.timeout)
-    if Path(args.outdir).exists() and not args.force:  # refuse before the long proof, not after
-        raise InputError(f"bundle: '{args.outdir}' already exists (use --force to replace it)")
     report = case_report(case, select(case, args.claim), args.solver, args.timeout, args.cross_check,
                          max(1, args.workers), progress_bar(), getattr(args, "budget", None))
-    write_bundle(report, args.outdir, str(args.case), args.force)
+    try:
+        write_bundle(report, args.outdir, str(args.case), args.force)
+    except OSError as exc:   # a full disk or a folder made read-only meanwhile
+        raise write_error(exc, args.outdir, "bundle") from None
     counts = report.status_counts
     print(f"bundle written to {args.outdir}: {len(report.claims)} claims, {counts['proved']} proved, "
           f"{counts['refuted']} refuted, {counts['unknown']} unknown")

@@ -17,33 +17,47 @@ form (verifier.piecewise); otherwise the claim is split into one sub-claim per r
 claim checks that the regimes cover its region (workbench.expansion).
 
 Every error names the file, the key and the position (file line and column when the value can be
-found verbatim in the file, else the column inside the value).
+found verbatim in the file, else the column inside the value).  Unknown keys and values of the wrong
+type are errors, never ignored (a misspelt `regoin` would silently drop the assumption), and a TOML
+number is the exact rational written (`1e-7` is 1/10000000), never a float turned back into text.
 """
 
 from __future__ import annotations
 
+import datetime
+import decimal
+import math
 import re
 import tomllib
 from dataclasses import dataclass, field
+from fractions import Fraction
 from pathlib import Path
 
 from verifier import claims as C
 from verifier.errors import CaseFileError, InputError
-from verifier.expr import Expr, max_, min_, param, params, substitute
+from verifier.expr import Expr, const, max_, min_, param, params, substitute
 from verifier.latex_in import parse_latex_expr, parse_latex_region
+from verifier.lexer import KEYWORDS, MAX_LITERAL_DIGITS
+from verifier.lp import feasible
 from verifier.parse import parse_piecewise
 from verifier.parse import parse_expr, parse_region
 from verifier.piecewise import Piece, PiecewiseCheck, check_piecewise
 from verifier.region import Region
 
 from .expansion import expand
-from .statements import Part, parse_sentence, shifted
+from .output_target import shown_path
+from .statements import Part, check_notation, did_you_mean, explained, listing, parse_sentence, shifted
 
 RESERVED = {"inner", "outer"}
 CLAIM_KEYS = {"name", "statement", "where", "expect"}
 VERDICTS = ("proved", "refuted", "unknown")
 TOP_KEYS = {"title", "scenario", "source", "parameters", "assume", "outer", "inner", "formulas",
-            "claims", "network", "plot"}
+            "claims", "network"}
+ASSUME_KEYS = {"region"}
+REGIME_KEYS = {"regimes"}
+NAME_RE = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")
+NOT_NAMES = KEYWORDS | {"min", "max", "Min", "Max", "pos", "abs", "Abs"}   # words the grammar owns
+MAX_SUBCLAIMS = 4096   # regimes of several discontinuous bounds multiply: a typo, not a case
 
 
 @dataclass
@@ -96,19 +110,39 @@ class Case:
         raise InputError("definitions refer to each other in a cycle")
 
 
+def kind_of(value) -> str:
+    """How a message names a TOML value's type."""
+    if isinstance(value, bool):
+        return "a boolean"
+    if isinstance(value, int):
+        return "an integer"
+    if isinstance(value, (float, decimal.Decimal)):
+        return "a number"
+    if isinstance(value, str):
+        return "a string" if value.strip() else "an empty string"
+    if isinstance(value, list):
+        return "an array"
+    if isinstance(value, dict):
+        return "a table"
+    if isinstance(value, (datetime.date, datetime.time)):
+        return "a date or time"
+    return type(value).__name__
+
+
 class _Reader:
     """Parses values of one file, turning every InputError into a CaseFileError with a location."""
 
     def __init__(self, path: str, text: str):
         self.path, self.text = path, text
+        self.shown = shown_path(path)
 
     def fail(self, key: str, err: InputError | str, value: str | None = None) -> CaseFileError:
         if isinstance(err, str):
-            return CaseFileError(f"{self.path}: {key}: {err}")
+            return CaseFileError(f"{self.shown}: {key}: {err}")
         where = self._locate(value, err.position) if value is not None else None
         if where is None and err.column is not None:
             where = f"column {err.column} of the value"
-        return CaseFileError(f"{self.path}: {key}: {err.message}" + (f" ({where})" if where else ""))
+        return CaseFileError(f"{self.shown}: {key}: {err.message}" + (f" ({where})" if where else ""))
 
     def _locate(self, value: str, offset: int | None) -> str | None:
         at = self.text.find(value) if value else -1
@@ -118,78 +152,212 @@ class _Reader:
         line = self.text.count("\n", 0, pos) + 1
         return f"line {line}, column {pos - self.text.rfind(chr(10), 0, pos)}"
 
-    def expr(self, key: str, value, names) -> Expr:
-        if isinstance(value, (int, float)) and not isinstance(value, bool):
-            value = repr(value)
+    # --- where a key is written (best effort: TOML has many spellings of one key) ---------------
+    def _section(self, name: str, index: int) -> tuple[int, int] | None:
+        head = re.compile(r"^[ \t]*\[\[?[ \t]*" + re.escape(name) + r"[ \t]*\]\]?[ \t]*(#.*)?$", re.M)
+        hits = list(head.finditer(self.text))
+        if len(hits) <= index:
+            return None
+        start = hits[index].end()
+        nxt = re.compile(r"^[ \t]*\[", re.M).search(self.text, start)
+        return start, nxt.start() if nxt else len(self.text)
+
+    def _key_at(self, key: str, start: int, end: int) -> int | None:
+        q = re.escape(key)
+        m = re.compile(r"(?:^|[{,])[ \t]*(?:" + q + r"|\"" + q + r"\"|'" + q + r"')[ \t]*[=.]",
+                       re.M).search(self.text, start, end)
+        return m.start() + len(m.group()) - len(m.group().lstrip("{, \t")) if m else None
+
+    def key_line(self, path: list) -> str:
+        """' at line N' for a key given as [(name, array index or None), ...], when found."""
+        names = [n for n, _ in path]
+        for k in range(len(path) - 1, 0, -1):
+            section = self._section(".".join(names[:k]), path[k - 1][1] or 0)
+            if section is not None:
+                start, end = section
+                rest = names[k:]
+                break
+        else:
+            first = re.compile(r"^[ \t]*\[", re.M).search(self.text)
+            start, end, rest = 0, first.start() if first else len(self.text), names
+            section = self._section(names[0], 0)
+            if len(names) == 1 and section is not None and self._key_at(names[0], start, end) is None:
+                return f" at line {self.text.count(chr(10), 0, section[0]) + 1}"
+        pos = start
+        for name in rest:
+            pos = self._key_at(name, pos, end)
+            if pos is None:
+                return ""
+        return f" at line {self.text.count(chr(10), 0, pos) + 1}"
+
+    def keys(self, table: dict, allowed, path: list, what: str) -> None:
+        """Refuse keys a table does not have: an ignored misspelt key silently changes the case."""
+        for key in table:
+            if key not in allowed:
+                hint = did_you_mean(key, allowed) or f" ({what} has: {', '.join(sorted(allowed))})"
+                dotted = _dotted(path + [(key, None)])
+                raise self.fail(dotted, f"unknown key{hint}{self.key_line(path + [(key, None)])}")
+
+    # --- typed values ---------------------------------------------------------------------------
+    def table(self, key: str, value, example: str) -> dict:
+        if not isinstance(value, dict):
+            raise self.fail(key, f"expected a table ({example}), found {kind_of(value)}")
+        return value
+
+    def string(self, key: str, value, what: str = "text in quotes") -> str:
         if not isinstance(value, str):
-            raise self.fail(key, f"expected an expression in quotes, found {type(value).__name__}")
+            raise self.fail(key, f"expected {what}, found {kind_of(value)}")
+        return value
+
+    def number(self, key: str, value) -> Fraction:
+        """The exact rational a TOML number spells (1e-7 is 1/10000000, 0.1 is 1/10)."""
+        if isinstance(value, float):          # a table from tomllib.loads without parse_float
+            if not math.isfinite(value):
+                raise self.fail(key, f"{value!r} is not a finite number")
+            value = decimal.Decimal(repr(value))
+        if isinstance(value, decimal.Decimal):
+            if not value.is_finite():
+                raise self.fail(key, f"'{value}' is not a finite number; give an exact one")
+            sign, digits, exponent = value.as_tuple()
+            if len(digits) + max(exponent, 0) > MAX_LITERAL_DIGITS or -exponent > MAX_LITERAL_DIGITS:
+                raise self.fail(key, f"number too large or too precise (more than {MAX_LITERAL_DIGITS} "
+                                     "digits)")
+            return Fraction(value)
+        if abs(value) >= 10 ** MAX_LITERAL_DIGITS:
+            raise self.fail(key, f"number too large (more than {MAX_LITERAL_DIGITS} digits)")
+        return Fraction(value)
+
+    def expr(self, key: str, value, names, explain=None) -> Expr:
+        if isinstance(value, (int, float, decimal.Decimal)) and not isinstance(value, bool):
+            return const(self.number(key, value))
+        if not isinstance(value, str):
+            raise self.fail(key, f"expected an expression in quotes or a number, found {kind_of(value)}")
         try:
             if "\\" in value:  # pasted from a manuscript: the LaTeX subset
                 return parse_latex_expr(value, names)
+            check_notation(value)
             return parse_expr(value, names)
         except InputError as err:
-            raise self.fail(key, err, value) from None
+            raise self.fail(key, explained(err, explain) if explain else err, value) from None
 
-    def region(self, key: str, value, names) -> Region:
+    def region(self, key: str, value, names, explain=None) -> Region:
         if not isinstance(value, str):
-            raise self.fail(key, f"expected a region in quotes, found {type(value).__name__}")
+            raise self.fail(key, f"expected a region in quotes, found {kind_of(value)}")
         try:
             if "\\" in value:
                 return parse_latex_region(value, names)
+            check_notation(value)
             return parse_region(value, names)
         except InputError as err:
-            raise self.fail(key, err, value) from None
+            raise self.fail(key, explained(err, explain) if explain else err, value) from None
+
+
+def _dotted(path: list) -> str:
+    return ".".join(n if i is None else f"{n}[{i}]" for n, i in path)
+
+
+def read_text(path: str) -> str:
+    """The file's text; a missing file, a folder or bytes that are not UTF-8 are input errors."""
+    shown = shown_path(path)
+    p = Path(path)
+    if not str(path):
+        raise CaseFileError("empty file name given for the case file")
+    if p.is_dir():
+        raise CaseFileError(f"{shown}: is a folder, not a case file")
+    try:
+        raw = p.read_bytes()
+    except OSError as exc:
+        raise CaseFileError(f"{shown}: cannot read: {exc.strerror or type(exc).__name__}") from None
+    try:
+        return raw.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        line = raw.count(b"\n", 0, exc.start) + 1
+        column = exc.start - (raw.rfind(b"\n", 0, exc.start) + 1) + 1
+        raise CaseFileError(f"{shown}: not UTF-8 text: byte 0x{raw[exc.start]:02x} at offset {exc.start} "
+                            f"(line {line}, column {column}); save the file as UTF-8") from None
+
+
+def read_toml(path: str) -> tuple[str, dict]:
+    """(text, table) of a TOML file, numbers as Decimal (the exact value written, never a float)."""
+    text = read_text(path)
+    try:
+        return text, tomllib.loads(text, parse_float=decimal.Decimal)
+    except tomllib.TOMLDecodeError as exc:
+        raise CaseFileError(f"{shown_path(path)}: not valid TOML: {exc}") from None
+    except RecursionError:
+        raise CaseFileError(f"{shown_path(path)}: not valid TOML: nested too deeply") from None
+    except ValueError as exc:   # an integer beyond Python's digit limit for int(str)
+        raise CaseFileError(f"{shown_path(path)}: not valid TOML: a number too large to read "
+                            f"({str(exc).split(':')[0]})") from None
 
 
 def load_case(path: str | Path, solver: str = "z3", timeout: float = 30.0) -> Case:
     """Read and check a case file; every problem is a CaseFileError naming file, key and position."""
     path = str(path)
-    try:
-        text = Path(path).read_text(encoding="utf-8")
-    except OSError as exc:
-        raise CaseFileError(f"{path}: cannot read: {exc.strerror or exc}") from None
-    try:
-        data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        raise CaseFileError(f"{path}: not valid TOML: {exc}") from None
+    text, data = read_toml(path)
     return build_case(path, text, data, solver, timeout)
 
 
 def build_case(path: str, text: str, data: dict, solver="z3", timeout=30.0) -> Case:
     rd = _Reader(path, text)
-    unknown = sorted(set(data) - TOP_KEYS)
-    if unknown:
-        raise rd.fail(unknown[0], f"unknown key; expected one of {', '.join(sorted(TOP_KEYS))}")
+    rd.keys(data, TOP_KEYS, [], "a case file")
     params = _parameters(rd, data)
-    assume = rd.region("assume.region", data.get("assume", {}).get("region", "true"), params)
-    case = Case(path, str(data.get("title", Path(path).stem)), str(data.get("scenario", "")).strip(),
-                str(data.get("source", "")), params, assume, {}, {}, {}, [], raw=data)
+    assume_table = rd.table("assume", data.get("assume", {}), '[assume] region = "..."')
+    rd.keys(assume_table, ASSUME_KEYS, [("assume", None)], "[assume]")
+    only_params = _parameters_only(params, "the assumption")
+    assume = rd.region("assume.region", assume_table.get("region", "true"), params, only_params)
+    texts = {k: rd.string(k, data.get(k, ""), "text in quotes") for k in ("title", "scenario", "source")}
+    case = Case(path, texts["title"] or Path(path).stem, texts["scenario"].strip(), texts["source"],
+                params, assume, {}, {}, {}, [], raw=data)
     _network_bounds(rd, data, case)
-    for table in ("outer", "inner"):
-        _bounds(rd, data.get(table, {}), table, case, solver, timeout)
-    _formulas(rd, data.get("formulas", {}), case)
-    case.claims = [_claim(rd, i, spec, case) for i, spec in enumerate(data.get("claims", []))]
+    tables = {t: rd.table(t, data.get(t, {}), f'[{t}] name = "expression"')
+              for t in ("outer", "inner", "formulas")}
+    for kind in ("outer", "inner"):
+        _bounds(rd, tables[kind], kind, case, solver, timeout)
+    _formulas(rd, tables["formulas"], case)
+    claims = data.get("claims", [])
+    if isinstance(claims, dict):
+        raise rd.fail("claims", "expected an array of tables: write each claim under [[claims]] "
+                                "(two brackets), not [claims]")
+    if not isinstance(claims, list):
+        raise rd.fail("claims", f"expected an array of tables ([[claims]] entries), found {kind_of(claims)}")
+    case.claims = [_claim(rd, i, spec, case) for i, spec in enumerate(claims)]
     return case
 
 
 def _parameters(rd: _Reader, data: dict) -> dict[str, str]:
     params = data.get("parameters")
-    if not isinstance(params, dict) or not params:
+    if params is None or params == {}:
         raise rd.fail("parameters", "declare the parameters: [parameters] alpha = \"meaning\"")
-    for name in params:
-        if not re.fullmatch(r"[A-Za-z_][A-Za-z0-9_]*", name) or name in RESERVED:
-            raise rd.fail(f"parameters.{name}", f"'{name}' cannot be a parameter name")
-    return {k: str(v) for k, v in params.items()}
+    rd.table("parameters", params, '[parameters] alpha = "meaning"')
+    for name, meaning in params.items():
+        if not NAME_RE.fullmatch(name) or name in RESERVED or name in NOT_NAMES:
+            raise rd.fail(f"parameters.{name}", f"'{shown_path(name)}' cannot be a parameter name "
+                          "(a letter or _, then letters, digits or _; not a word of the grammar)")
+        rd.string(f"parameters.{name}", meaning, "its meaning as text in quotes")
+    return dict(params)
+
+
+def _parameters_only(params, what: str):
+    """explain() for a value that may use only parameters (bounds, regions)."""
+    def explain(name: str) -> str:
+        return (f"unknown parameter '{name}'{did_you_mean(name, params)}; {what} may use only the "
+                f"parameters ({listing(params)})")
+    return explain
 
 
 def _check_new_name(rd: _Reader, key: str, name: str, case: Case) -> None:
     taken = set(case.parameters) | RESERVED | set(case.outer) | set(case.inner) | set(case.formulas)
-    if name in taken or not re.fullmatch(r"[A-Za-z_][A-Za-z0-9_]*", name):
-        raise rd.fail(key, f"the name '{name}' is already used or is not a valid name")
+    if not NAME_RE.fullmatch(name) or name in NOT_NAMES:
+        raise rd.fail(key, f"'{shown_path(name)}' is not a valid name (a letter or _, then letters, "
+                           "digits or _; not a word of the grammar)")
+    if name in taken:
+        raise rd.fail(key, f"the name '{name}' is already used")
 
 
 def _bounds(rd: _Reader, table: dict, kind: str, case: Case, solver, timeout) -> None:
     target = case.outer if kind == "outer" else case.inner
+    explain = _explain_bound(case)
     for name, value in table.items():
         key = f"{kind}.{name}"
         _check_new_name(rd, key, name, case)
@@ -197,25 +365,44 @@ def _bounds(rd: _Reader, table: dict, kind: str, case: Case, solver, timeout) ->
             case.piecewise[name] = _regimes(rd, key, value, case, solver, timeout)
             target[name] = param(name)
         else:
-            target[name] = rd.expr(key, value, list(case.parameters))
+            target[name] = rd.expr(key, value, list(case.parameters), explain)
+
+
+def _explain_bound(case: Case, what: str = "a bound"):
+    """explain() for a value that may use only parameters, saying so when it names a bound."""
+    fallback = _parameters_only(case.parameters, what)
+
+    def explain(name: str) -> str:
+        if name in case.named() or name in RESERVED:
+            hint = ": put combinations of bounds in [formulas]" if what == "a bound" else ""
+            return (f"'{name}' is a bound or formula; {what} may use only the parameters "
+                    f"({listing(case.parameters)}){hint}")
+        return fallback(name)
+    return explain
 
 
 def _pieces(rd: _Reader, key: str, value, case: Case) -> list[Piece]:
     names = list(case.parameters)
+    explain = _explain_bound(case)
     if isinstance(value, str):
         try:
+            check_notation(value)
             return [Piece(e, r) for e, r in parse_piecewise(value, names).pieces]
         except InputError as err:
-            raise rd.fail(key, err, value) from None
+            raise rd.fail(key, explained(err, explain), value) from None
+    rd.keys(value, REGIME_KEYS, [(n, None) for n in key.split(".")], "a regime-wise bound")
     rows = value.get("regimes")
     if not isinstance(rows, list) or not rows:
-        raise rd.fail(key, "a bound given regime by regime needs regimes = [[\"formula\", \"region\"], ...]")
+        found = "" if rows is None else ", found an empty array" if rows == [] else f", found {kind_of(rows)}"
+        raise rd.fail(key, "a bound given regime by regime needs regimes = [[\"formula\", \"region\"], ...]"
+                      + found)
     pieces = []
     for i, row in enumerate(rows):
         if not (isinstance(row, list) and len(row) == 2):
-            raise rd.fail(f"{key}.regimes[{i}]", "each regime is [\"formula\", \"region\"]")
-        pieces.append(Piece(rd.expr(f"{key}.regimes[{i}]", row[0], names),
-                            rd.region(f"{key}.regimes[{i}]", row[1], names)))
+            raise rd.fail(f"{key}.regimes[{i}]", "each regime is [\"formula\", \"region\"], found "
+                          + (f"an array of {len(row)}" if isinstance(row, list) else kind_of(row)))
+        pieces.append(Piece(rd.expr(f"{key}.regimes[{i}]", row[0], names, explain),
+                            rd.region(f"{key}.regimes[{i}]", row[1], names, explain)))
     return pieces
 
 
@@ -229,28 +416,77 @@ def _formulas(rd: _Reader, table: dict, case: Case) -> None:
     for name, value in table.items():
         key = f"formulas.{name}"
         _check_new_name(rd, key, name, case)
-        case.formulas[name] = rd.expr(key, value, list(case.parameters) + list(case.named()))
+        if isinstance(value, dict):
+            raise rd.fail(key, "a formula is one expression; give a bound regime by regime in [outer] "
+                               "or [inner]")
+        later = [n for n in table if n not in case.formulas and n != name]
+        names = list(case.parameters) + list(case.named())
+
+        def explain(used: str) -> str:
+            if used == name:
+                return f"the formula '{name}' uses itself"
+            if used in later:
+                return (f"'{used}' is defined later in [formulas]; a formula may use only parameters, "
+                        "bounds and formulas defined above it")
+            return _explain_claim_name(used, case)
+        case.formulas[name] = rd.expr(key, value, names, explain)
+
+
+def _exact_numbers(rd: _Reader, value, key: str):
+    """A copy of a [network] value with TOML numbers as exact Fractions (bounds/ takes those)."""
+    if isinstance(value, dict):
+        return {k: _exact_numbers(rd, v, f"{key}.{k}") for k, v in value.items()}
+    if isinstance(value, list):
+        return [_exact_numbers(rd, v, f"{key}[{i}]") for i, v in enumerate(value)]
+    if isinstance(value, (float, decimal.Decimal)) or (isinstance(value, int) and not isinstance(value, bool)):
+        return rd.number(key, value)
+    return value
 
 
 def _network_bounds(rd: _Reader, data: dict, case: Case) -> None:
     """A [network] table contributes its cut-set bounds as named outer bounds (bounds/ generates them)."""
     if "network" not in data:
         return
+    table = rd.table("network", data["network"], "[network] with nodes, links and messages")
     try:
         from bounds.casefile import network_outer_bounds
-        generated = network_outer_bounds(data["network"], list(case.parameters))
-    except InputError as err:
+        generated = network_outer_bounds(_exact_numbers(rd, table, "network"), list(case.parameters))
+    except CaseFileError:
+        raise
+    except RecursionError:
+        raise rd.fail("network", "nested too deeply") from None
+    except InputError as err:   # bounds/ names the key inside the table: network.links[0], ...
+        inner = re.fullmatch(r"([A-Za-z_][\w.\[\]]*): (.*)", err.message, re.S)
+        if inner:
+            raise rd.fail(f"network.{inner[1]}", inner[2]) from None
         raise rd.fail("network", err.message) from None
     for name, expr in generated.items():
         _check_new_name(rd, f"network -> outer.{name}", name, case)
         case.outer[name] = expr
 
 
+def _explain_claim_name(name: str, case: Case) -> str:
+    """Why a claim cannot use `name`: a missing [outer]/[inner], or a typo among the names it has."""
+    if name in RESERVED:
+        if isinstance(case.raw.get(name), dict):
+            return f"'{name}' is used but the [{name}] table of the case file is empty"
+        return f"'{name}' is used but the case file has no [{name}] table"
+    named = [n for n in ("outer", "inner") if n in case.named()]
+    named += [n for n in case.named() if n not in named]
+    close = did_you_mean(name, list(case.parameters) + named).strip(" ()")
+    # a near-miss of a bound is an unknown name; anything else most likely a parameter
+    what = "name" if close and close.split("'")[1] in named else "parameter"
+    return (f"unknown {what} '{name}' (parameters: {listing(case.parameters)}; bounds and formulas: "
+            f"{listing(named)}" + (f"; {close})" if close else ")"))
+
+
 def _side(rd: _Reader, part: Part, full: str, key: str, case: Case) -> C.Side:
     named = case.named()
     try:
+        check_notation(part.text)
         expr = parse_expr(part.text, list(case.parameters) + list(named))
     except InputError as err:
+        err = explained(err, lambda name: _explain_claim_name(name, case))
         raise rd.fail(key, shifted(err, part, full), full) from None
     label = part.text if part.text in named else ""
     parts = ()
@@ -263,25 +499,32 @@ def _side(rd: _Reader, part: Part, full: str, key: str, case: Case) -> C.Side:
 
 def _claim(rd: _Reader, index: int, spec, case: Case) -> CaseClaim:
     key = f"claims[{index}]"
-    if not isinstance(spec, dict) or "statement" not in spec:
+    if not isinstance(spec, dict):
+        raise rd.fail(key, f"expected a table (a [[claims]] entry), found {kind_of(spec)}")
+    rd.keys(spec, CLAIM_KEYS, [("claims", index)], "a claim")
+    if "statement" not in spec:
         raise rd.fail(key, "each [[claims]] entry needs statement = \"...\"")
-    extra = sorted(set(spec) - CLAIM_KEYS)
-    if extra:
-        raise rd.fail(f"{key}.{extra[0]}", f"unknown key; a claim has {', '.join(sorted(CLAIM_KEYS))}")
-    text = spec["statement"]
+    text = rd.string(f"{key}.statement", spec["statement"], "the claim in quotes")
     try:
         s = parse_sentence(text)
     except InputError as err:
         raise rd.fail(f"{key}.statement", err, text) from None
     region = case.assume
     if "where" in spec:
-        region = region.meet(rd.region(f"{key}.where", spec["where"], list(case.parameters)))
-    name = str(spec.get("name", f"claim {index + 1}"))
+        explain = _explain_bound(case, "'where'")
+        region = region.meet(rd.region(f"{key}.where", spec["where"], list(case.parameters), explain))
+    _check_nonempty(rd, [("claims", index), ("where", None)] if "where" in spec
+                    else [("assume", None), ("region", None)], region)
+    name = rd.string(f"{key}.name", spec.get("name", f"claim {index + 1}"), "the claim's name in quotes")
+    if not name.strip():
+        raise rd.fail(f"{key}.name", "empty name")
     expect = spec.get("expect")
     if expect is not None and expect not in VERDICTS:
-        raise rd.fail(f"{key}.expect", f"expected one of {', '.join(VERDICTS)}, found '{expect}'")
+        found = f"'{expect}'" if isinstance(expect, str) else kind_of(expect)
+        raise rd.fail(f"{key}.expect", f"expected one of {', '.join(VERDICTS)}, found {found}")
     claim = _make_claim(rd, s, text, f"{key}.statement", region, name, case)
     result = CaseClaim(claim, text, expect, key)
+    _check_split(rd, f"{key}.statement", claim, case)
     try:
         expand(result, case)
     except InputError as err:
@@ -289,11 +532,36 @@ def _claim(rd: _Reader, index: int, spec, case: Case) -> CaseClaim:
     return result
 
 
+def _check_nonempty(rd: _Reader, path: list, region: Region) -> None:
+    """An empty region (alpha > 1, alpha < 0) is a typo; exact LP here, so the error can name the key."""
+    names = sorted(region.params())
+    if not any(feasible(piece.atoms, names) is not None for piece in region.pieces):
+        raise rd.fail(_dotted(path), f"the claim's region '{region.text()}' is empty{rd.key_line(path)}")
+
+
+def _check_split(rd: _Reader, key: str, claim: C.Claim, case: Case) -> None:
+    """Refuse a claim whose split by regimes would be astronomically large (before building it)."""
+    count = 1
+    for n in sorted(set(claim.params) & set(case.piecewise)):
+        if case.piecewise[n].expr is None:
+            count *= len(case.piecewise[n].pieces)
+    if count > MAX_SUBCLAIMS:
+        raise rd.fail(key, f"the regime-wise bounds it mentions split it into {count} sub-claims "
+                           f"(limit {MAX_SUBCLAIMS}); state it for fewer bounds at a time")
+
+
+def _parameter_of_sentence(rd: _Reader, key: str, name: str, case: Case) -> None:
+    if name not in case.parameters:
+        close = did_you_mean(name, case.parameters).strip(" ()")
+        raise rd.fail(key, f"unknown parameter '{name}' (parameters: {listing(case.parameters)}"
+                           + (f"; {close})" if close else ")"))
+
+
 def _make_claim(rd, s, text, key, region, name, case) -> C.Claim:
     lhs = _side(rd, s.lhs, text, key, case)
     for p in (s.param,) + s.swap:
-        if p and p not in case.parameters:
-            raise rd.fail(key, f"unknown parameter '{p}'")
+        if p:
+            _parameter_of_sentence(rd, key, p, case)
     try:
         if s.kind == "relation":
             return C.relation(lhs, s.rel, _side(rd, s.rhs, text, key, case), region, name)
@@ -304,10 +572,9 @@ def _make_claim(rd, s, text, key, region, name, case) -> C.Claim:
             return C.monotone(lhs, s.param, region, s.increasing, name)
         if s.kind == "symmetric":
             return C.symmetric(lhs, s.swap[0], s.swap[1], region, name)
+        for n, _ in s.values:
+            _parameter_of_sentence(rd, key, n, case)
         values = {n: _side(rd, v, text, key, case).expr for n, v in s.values}
-        for n in values:
-            if n not in case.parameters:
-                raise rd.fail(key, f"unknown parameter '{n}'")
         return C.reduces_to(lhs, values, _side(rd, s.rhs, text, key, case), region, name)
     except CaseFileError:
         raise

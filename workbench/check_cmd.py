@@ -18,13 +18,23 @@ def configure(p) -> None:
 
 
 def select(case, names):
+    """The claims named by --claim: an exact name, else a unique prefix of one (names are long)."""
+    from .output_target import shown_path
     if not names:
         return case.claims
-    chosen = [c for c in case.claims if c.claim.name in names]
-    missing = set(names) - {c.claim.name for c in chosen}
-    if missing:
-        raise InputError(f"no claim named {', '.join(sorted(missing))} in {case.path}")
-    return chosen
+    available = [c.claim.name for c in case.claims]
+    wanted = set()
+    for name in names:
+        hits = [n for n in available if n == name] or [n for n in available if n.startswith(name)]
+        if not hits:
+            listing = "; ".join(f"'{n}'" for n in available) or "none"
+            raise InputError(f"--claim '{name}': no claim of that name in {shown_path(case.path)} "
+                             f"(claims: {listing})")
+        if len(set(hits)) > 1:
+            raise InputError(f"--claim '{name}' matches several claims of {shown_path(case.path)}: "
+                             + "; ".join(f"'{n}'" for n in dict.fromkeys(hits)))
+        wanted.add(hits[0])
+    return [c for c in case.claims if c.claim.name in wanted]
 
 
 def run(args) -> int:

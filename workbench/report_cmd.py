@@ -83,12 +83,18 @@ def write_atomic(path: str | Path, text: str) -> None:
 
 
 def run(args) -> int:
+    from .output_target import check_output_file, write_error
+    if args.out is not None:   # refuse a bad --out before the proof, not after it
+        check_output_file(args.out, keep=[args.case])
     case = load_case(args.case, args.solver, args.timeout)
     report = case_report(case, select(case, args.claim), args.solver, args.timeout, args.cross_check,
                          max(1, args.workers), progress_bar(), getattr(args, "budget", None))
     text = RENDERERS[args.format](report)
-    if args.out:
-        write_atomic(args.out, text)
+    if args.out is not None:
+        try:
+            write_atomic(args.out, text)
+        except OSError as exc:   # a full disk or a folder made read-only meanwhile
+            raise write_error(exc, args.out, "report --out") from None
     else:
         sys.stdout.write(text)
     return exit_code(c.status for c in report.claims)
