@@ -147,7 +147,7 @@ def _swap_in(new: Path, out: Path) -> None:
 def run(args) -> int:
     from .output_target import check_bundle_target, write_error
     check_bundle_target(args.outdir, args.case, args.force)  # refuse before the long proof, not after
-    case = load_case(args.case, args.solver, args.timeout)
+    case = load_case(args.case, args.solver, args.timeout, getattr(args, "budget", None))
     report = case_report(case, select(case, args.claim), args.solver, args.timeout, args.cross_check,
                          max(1, args.workers), progress_bar(), getattr(args, "budget", None))
     try:

@@ -66,25 +66,27 @@ def case_files(paths) -> list[Path]:
     return unique
 
 
-def run_case(path, solver: str = "z3", timeout: float = 30.0, cross_check: bool = False) -> CaseRun:
-    """Load one case file and decide every claim; bad input is recorded, never raised."""
+def run_case(path, solver: str = "z3", timeout: float = 30.0, cross_check: bool = False,
+             budget: float | None = None) -> CaseRun:
+    """Load one case file and decide every claim; bad input is recorded, never raised.
+    `budget`: seconds per claim over all stages (verifier.budget)."""
     run = CaseRun(str(path))
     start = time.perf_counter()
     try:
-        case = load_case(path, solver, timeout)
+        case = load_case(path, solver, timeout, budget)
         run.case, run.title, run.source = case, case.title, case.source
         for cc in case.claims:
-            run.results.append((cc, _decide(cc, run.path, solver, timeout, cross_check)))
+            run.results.append((cc, _decide(cc, run.path, solver, timeout, cross_check, budget)))
     except GdofError as err:
         run.error = str(err)
     run.seconds = time.perf_counter() - start
     return run
 
 
-def _decide(cc, path: str, solver, timeout, cross_check):
+def _decide(cc, path: str, solver, timeout, cross_check, budget=None):
     """decide(), with an error inside a claim (an empty region) turned into one naming file and key."""
     try:
-        return decide(cc, solver, timeout, cross_check)
+        return decide(cc, solver, timeout, cross_check, "smt", budget)
     except CaseFileError:
         raise
     except InputError as err:
@@ -111,7 +113,8 @@ def configure(p) -> None:
 
 def run(args) -> int:
     files = case_files(args.paths or ["casebook"])
-    runs = [run_case(f, args.solver, args.timeout, args.cross_check) for f in files]
+    runs = [run_case(f, args.solver, args.timeout, args.cross_check, getattr(args, "budget", None))
+            for f in files]
     for r in runs:
         if r.error:
             print(f"gdof: error: {r.error}", file=sys.stderr)

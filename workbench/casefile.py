@@ -291,14 +291,16 @@ def read_toml(path: str) -> tuple[str, dict]:
                             f"({str(exc).split(':')[0]})") from None
 
 
-def load_case(path: str | Path, solver: str = "z3", timeout: float = 30.0) -> Case:
+def load_case(path: str | Path, solver: str = "z3", timeout: float = 30.0, budget: float | None = None) -> Case:
     """Read and check a case file; every problem is a CaseFileError naming file, key and position."""
     path = str(path)
     text, data = read_toml(path)
-    return build_case(path, text, data, solver, timeout)
+    return build_case(path, text, data, solver, timeout, budget)
 
 
-def build_case(path: str, text: str, data: dict, solver="z3", timeout=30.0) -> Case:
+def build_case(path: str, text: str, data: dict, solver="z3", timeout=30.0, budget=None) -> Case:
+    """The Case of parsed TOML `data`.  `budget`: seconds for checking each regime-wise definition
+    (coverage and its min/max form), all queries included; default verifier.budget's."""
     rd = _Reader(path, text)
     rd.keys(data, TOP_KEYS, [], "a case file")
     params = _parameters(rd, data)
@@ -313,7 +315,7 @@ def build_case(path: str, text: str, data: dict, solver="z3", timeout=30.0) -> C
     tables = {t: rd.table(t, data.get(t, {}), f'[{t}] name = "expression"')
               for t in ("outer", "inner", "formulas")}
     for kind in ("outer", "inner"):
-        _bounds(rd, tables[kind], kind, case, solver, timeout)
+        _bounds(rd, tables[kind], kind, case, solver, timeout, budget)
     _formulas(rd, tables["formulas"], case)
     claims = data.get("claims", [])
     if isinstance(claims, dict):
@@ -355,14 +357,14 @@ def _check_new_name(rd: _Reader, key: str, name: str, case: Case) -> None:
         raise rd.fail(key, f"the name '{name}' is already used")
 
 
-def _bounds(rd: _Reader, table: dict, kind: str, case: Case, solver, timeout) -> None:
+def _bounds(rd: _Reader, table: dict, kind: str, case: Case, solver, timeout, budget=None) -> None:
     target = case.outer if kind == "outer" else case.inner
     explain = _explain_bound(case)
     for name, value in table.items():
         key = f"{kind}.{name}"
         _check_new_name(rd, key, name, case)
         if isinstance(value, dict) or (isinstance(value, str) and re.search(r"\bif\b", value)):
-            case.piecewise[name] = _regimes(rd, key, value, case, solver, timeout)
+            case.piecewise[name] = _regimes(rd, key, value, case, solver, timeout, budget)
             target[name] = param(name)
         else:
             target[name] = rd.expr(key, value, list(case.parameters), explain)
@@ -406,8 +408,10 @@ def _pieces(rd: _Reader, key: str, value, case: Case) -> list[Piece]:
     return pieces
 
 
-def _regimes(rd: _Reader, key: str, value, case: Case, solver, timeout) -> PiecewiseCheck:
-    result = check_piecewise(key, _pieces(rd, key, value, case), case.assume, solver, timeout)
+def _regimes(rd: _Reader, key: str, value, case: Case, solver, timeout, budget=None) -> PiecewiseCheck:
+    from verifier.budget import Budget
+    result = check_piecewise(key, _pieces(rd, key, value, case), case.assume, solver,
+                             Budget.of(None, timeout, budget))
     case.regime_checks.append(result)
     return result
 

@@ -38,7 +38,7 @@ def select(case, names):
 
 
 def run(args) -> int:
-    case = load_case(args.case, args.solver, args.timeout)
+    case = load_case(args.case, args.solver, args.timeout, getattr(args, "budget", None))
     outcomes = [decide(cc, args.solver, args.timeout, args.cross_check, "smt", getattr(args, "budget", None))
                 for cc in select(case, args.claim)]
     if args.json:

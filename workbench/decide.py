@@ -197,8 +197,10 @@ def decide(case_claim, solver="z3", timeout=30.0, cross_check=False, method="smt
                           "refers to (is it empty?)")
     combined = all_of(obligations)
     out.status, out.obligations = combined.status, combined.obligations
-    if combined.status == UNKNOWN:
-        out.notes = list(combined.notes)
+    if combined.status == UNKNOWN:   # the parts show their own details; say what else is open
+        shown = {id(p.result) for p in out.parts}
+        out.notes = [f"{ob.what}: {ob.reason or 'undecided'}" for ob in obligations
+                     if ob.status != PROVED and id(ob.evidence) not in shown]
     else:   # a refutation explains itself; keep only the loud notes
         out.notes = [ob.reason for ob in obligations if "DISAGREE" in ob.reason]
     out.seconds = clock.spent()

@@ -86,7 +86,7 @@ def run(args) -> int:
     from .output_target import check_output_file, write_error
     if args.out is not None:   # refuse a bad --out before the proof, not after it
         check_output_file(args.out, keep=[args.case])
-    case = load_case(args.case, args.solver, args.timeout)
+    case = load_case(args.case, args.solver, args.timeout, getattr(args, "budget", None))
     report = case_report(case, select(case, args.claim), args.solver, args.timeout, args.cross_check,
                          max(1, args.workers), progress_bar(), getattr(args, "budget", None))
     text = RENDERERS[args.format](report)
