@@ -55,10 +55,24 @@ def test_failure_mid_write_leaves_no_bundle(report, tmp_path, monkeypatch):
     assert not (tmp_path / "out").exists() and _no_leftovers(tmp_path)
 
 
-def test_existing_folder_refused_then_kept_on_failed_force(report, tmp_path, monkeypatch):
+def _old_bundle(out):
+    out.mkdir()
+    (out / "versions.txt").write_text("gdof report bundle\n")
+    (out / "keep.txt").write_text("old")
+
+
+def test_force_never_replaces_a_folder_that_is_not_a_bundle(report, tmp_path):
     out = tmp_path / "out"
     out.mkdir()
-    (out / "keep.txt").write_text("old")
+    (out / "thesis.tex").write_text("months of work")
+    with pytest.raises(InputError, match="not an earlier bundle"):
+        bundle_cmd.write_bundle(report, out, force=True)
+    assert (out / "thesis.tex").read_text() == "months of work"
+
+
+def test_existing_folder_refused_then_kept_on_failed_force(report, tmp_path, monkeypatch):
+    out = tmp_path / "out"
+    _old_bundle(out)
     with pytest.raises(InputError, match="already exists"):
         bundle_cmd.write_bundle(report, out)
     monkeypatch.setattr(bundle_cmd, "counterexamples_csv", lambda r: 1 / 0)
@@ -69,8 +83,7 @@ def test_existing_folder_refused_then_kept_on_failed_force(report, tmp_path, mon
 
 def test_force_replaces(report, tmp_path):
     out = tmp_path / "out"
-    out.mkdir()
-    (out / "keep.txt").write_text("old")
+    _old_bundle(out)
     bundle_cmd.write_bundle(report, out, force=True)
     assert not (out / "keep.txt").exists() and (out / "report.md").exists() and _no_leftovers(tmp_path)
 

@@ -504,3 +504,18 @@ def test_deeply_nested_network_value_is_an_input_error(tmp_path, capsys):
     text = BASE.split("[outer]")[0] + NETWORK.replace('links = [["S", "D", "alpha"]]', f'links = [["S", "D", {nested}]]')
     line = check_error(tmp_path, capsys, text)
     assert "case.toml: " in line and "nested too deeply" in line
+
+
+def test_two_claims_with_one_name_are_refused(tmp_path, capsys):
+    text = BASE + '[[claims]]\nname = "tin below outer"\nstatement = "inner <= 1"\n'
+    line = one_error(capsys, "check", write(tmp_path, text))
+    assert "claims[1].name" in line and "already the name of claims[0]" in line
+
+
+def test_gdof_network_reads_files_by_the_case_file_rules(tmp_path, capsys):
+    bad = tmp_path / "bad.toml"
+    bad.write_bytes(b'title = "\xff"\n')
+    assert "not UTF-8" in one_error(capsys, "network", str(bad))
+    big = tmp_path / "big.toml"
+    big.write_text("x = " + "9" * 5001 + "\n")
+    assert "too large" in one_error(capsys, "network", str(big))

@@ -6,7 +6,8 @@ counterexamples.json / .csv (exact fractions as text), versions.txt (solvers, li
 
 Why atomic: a bundle is evidence; a half-written one (interrupted run, full disk, a plotting bug)
 must never be mistaken for a finished one.  The folder is built in a temporary sibling directory and
-renamed into place.  An existing OUTDIR is refused without --force; with --force the old folder is
+renamed into place.  An existing OUTDIR is refused without --force, and --force replaces only an
+earlier bundle (its versions.txt says so), never another folder; with --force the old folder is
 moved aside, the new one renamed in, and only then is the old one deleted (if the swap fails, the old
 folder is put back).
 """
@@ -118,6 +119,9 @@ def write_bundle(report: Report, outdir: str | Path, case_path: str = "", force:
     out = Path(outdir)
     if out.exists() and not force:
         raise InputError(f"bundle: '{out}' already exists (use --force to replace it)")
+    from .output_target import looks_like_bundle
+    if out.exists() and not looks_like_bundle(out):
+        raise InputError(f"bundle: '{out}' exists and is not an earlier bundle; --force replaces only bundles")
     out.parent.mkdir(parents=True, exist_ok=True)
     tmp = Path(tempfile.mkdtemp(prefix=f".{out.name}.tmp-", dir=out.parent))
     try:

@@ -324,6 +324,12 @@ def build_case(path: str, text: str, data: dict, solver="z3", timeout=30.0, budg
     if not isinstance(claims, list):
         raise rd.fail("claims", f"expected an array of tables ([[claims]] entries), found {kind_of(claims)}")
     case.claims = [_claim(rd, i, spec, case) for i, spec in enumerate(claims)]
+    seen: dict[str, str] = {}
+    for cc in case.claims:   # names select claims (--claim) and label reports: one claim each
+        if cc.claim.name in seen:
+            raise rd.fail(f"{cc.key}.name", f"'{cc.claim.name}' is already the name of {seen[cc.claim.name]}; "
+                          "give each claim its own name")
+        seen[cc.claim.name] = cc.key
     return case
 
 
@@ -445,6 +451,12 @@ def _exact_numbers(rd: _Reader, value, key: str):
     if isinstance(value, (float, decimal.Decimal)) or (isinstance(value, int) and not isinstance(value, bool)):
         return rd.number(key, value)
     return value
+
+
+def exact_table(path: str, text: str, value, key: str):
+    """`value` (read by read_toml) with every number as the exact Fraction written; a bad number is
+    a CaseFileError naming `key` (for readers of other TOML files, such as `gdof network`)."""
+    return _exact_numbers(_Reader(path, text), value, key)
 
 
 def _network_bounds(rd: _Reader, data: dict, case: Case) -> None:

@@ -7,7 +7,6 @@ bounds, each under a readable cut name, ready for the user to add schemes and cl
 
 from __future__ import annotations
 
-import tomllib
 from pathlib import Path
 
 from bounds.fragment import case_fragment
@@ -25,12 +24,10 @@ configure.solver_options = False
 
 
 def _read(path: str) -> dict:
-    try:
-        return tomllib.loads(Path(path).read_text(encoding="utf-8"))
-    except OSError as exc:
-        raise CaseFileError(f"{path}: cannot read: {exc.strerror or exc}") from None
-    except tomllib.TOMLDecodeError as exc:
-        raise CaseFileError(f"{path}: not valid TOML: {exc}") from None
+    """The file's tables with exact numbers (the case-file reader's rules: one-line errors)."""
+    from .casefile import exact_table, read_toml
+    text, data = read_toml(path)
+    return exact_table(path, text, data, "file")
 
 
 def run(args) -> int:

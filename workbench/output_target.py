@@ -97,7 +97,19 @@ def check_bundle_target(outdir, case_path, force: bool, what: str = "bundle") ->
             raise InputError(f"{what}: '{shown}' exists and is not a folder")
         if not force:
             raise InputError(f"{what}: '{shown}' already exists (use --force to replace it)")
+        if not looks_like_bundle(out):
+            raise InputError(f"{what}: '{shown}' exists and is not an earlier bundle (no versions.txt "
+                             "written by gdof); --force replaces only bundles")
     _probe(_existing_ancestor(Path(os.path.abspath(outdir)).parent, what), what)
+
+
+def looks_like_bundle(folder: Path) -> bool:
+    """An earlier bundle of ours: its versions.txt starts with the line we write."""
+    try:
+        first = (Path(folder) / "versions.txt").read_text(encoding="utf-8").splitlines()[:1]
+    except (OSError, UnicodeDecodeError):
+        return False
+    return first == ["gdof report bundle"]
 
 
 def write_error(exc: OSError, target, what: str) -> InputError:
