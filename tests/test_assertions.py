@@ -154,7 +154,7 @@ def test_notebook_display_shows_status_and_exact_counterexample():
     shown = show(verdict)
     html, latex = shown._repr_html_(), shown._repr_latex_()
     x = verdict.counterexample.point["alpha"]
-    assert "REFUTED" in html and f"<code>{_fmt(x)}</code>" in html and "left - right" in html
-    assert latex.startswith("$$") and latex.endswith("$$") and r"\textbf{REFUTED}" in latex
+    assert ">refuted</span>" in html and f"<code>{_fmt(x)}</code>" in html and "left - right" in html
+    assert latex.startswith("$$") and latex.endswith("$$") and r"\text{(refuted)}" in latex
     assert r"\alpha" in latex and "counterexample" in latex
-    assert "REFUTED" in repr(shown)
+    assert " -- refuted" in repr(shown)

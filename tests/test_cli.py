@@ -44,13 +44,13 @@ def run(capsys, *argv):
 
 def test_all_proved_exits_0(tmp_path, capsys):
     code, out, _ = run(capsys, "check", write(tmp_path, GOOD.format(extra="")))
-    assert code == 0 and "[PROVED ] tin below outer" in out and "asymptotic in SNR" in out
+    assert code == 0 and "tin below outer -- proved" in out and "asymptotic in SNR" in out
 
 
 def test_refuted_exits_1_with_exact_counterexample(tmp_path, capsys):
     extra = '[[claims]]\nname = "tin optimal"\nstatement = "inner == outer"\nwhere = "alpha <= 3/5"\n'
     code, out, _ = run(capsys, "check", write(tmp_path, GOOD.format(extra=extra)))
-    assert code == 1 and "[REFUTED] tin optimal" in out
+    assert code == 1 and "tin optimal -- refuted" in out
     # TIN is optimal exactly on [0, 1/2] (Etkin, Tse, Wang, IEEE Trans. IT 2008); the smallest
     # denominator strictly inside (1/2, 3/5) is 4/7 (hand check: no fraction with denominator <= 6 lies there).
     assert "counterexample: alpha = 4/7" in out
@@ -66,7 +66,7 @@ def test_unknown_exits_3(tmp_path, capsys, monkeypatch):
         return real(query, solver, timeout)
     monkeypatch.setattr("verifier.prove.check", fake)
     code, out, _ = run(capsys, "check", write(tmp_path, GOOD.format(extra="")))
-    assert code == 3 and "[UNKNOWN]" in out
+    assert code == 3 and " -- unknown" in out
 
 
 def test_json_output_is_exact(tmp_path, capsys):

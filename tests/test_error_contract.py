@@ -73,7 +73,7 @@ def test_toml_float_is_the_exact_decimal_not_text(tmp_path, capsys):
     assert case.formulas["v"] == const(Fraction(1, 10)) and case.formulas["u"] == const(1500)
     code = main(["check", "--claim", "false", path])
     out = capsys.readouterr().out
-    assert code == 1 and "[REFUTED] false" in out and "w = 1/10000000" in out
+    assert code == 1 and "false -- refuted" in out and "w = 1/10000000" in out
 
 
 @pytest.mark.parametrize("value,message", [
@@ -325,7 +325,7 @@ def test_claim_prefix_selects_a_unique_claim_and_refuses_an_ambiguous_one(tmp_pa
     path = write(tmp_path, TWO_CLAIMS)
     assert main(["check", "--claim", "tin below t", path]) == 0
     out = capsys.readouterr().out
-    assert "[PROVED ] tin below two" in out and "tin below outer" not in out
+    assert "tin below two -- proved" in out and "tin below outer" not in out
     line = one_error(capsys, "check", "--claim", "tin below", path)
     assert "--claim 'tin below' matches several claims" in line and "'tin below outer'; 'tin below two'" in line
 

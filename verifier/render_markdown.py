@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import html
 
+from .verdicts import tally_sentence
 from .render_text import part_heading, summary_lines, table_rows
 from .report import ClaimEntry, ClaimReport, Report, solver_text
 
@@ -56,7 +57,7 @@ def render_markdown(report: Report) -> str:
     for entry in report.claims:
         lines += claim_markdown(entry)
     counts = report.status_counts
-    lines += [f"Summary: {counts['proved']} proved, {counts['refuted']} refuted, {counts['unknown']} unknown.",
+    lines += [tally_sentence(counts),
               "", f"Solver: {solver_text(report)}", "", f"> **Caution.** {report.caution}", ""]
     return "\n".join(lines)
 

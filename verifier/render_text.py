@@ -7,6 +7,7 @@ referee reports, and `grep` on a verdict must work.
 from __future__ import annotations
 
 from .expr import to_text
+from .verdicts import tally_sentence
 from .report import ClaimEntry, ClaimReport, Report, failure_share_text, gap_text, num, point_text, solver_text
 
 
@@ -81,12 +82,12 @@ def part_heading(entry: ClaimEntry, k: int, section: ClaimReport) -> str:
     """'' for a claim decided as one part, else 'part 2 of 5 (label): verdict'."""
     if len(entry.sections) == 1 and not section.label:
         return ""
-    return f"  part {k} of {len(entry.sections)} ({section.label or 'whole region'}): {section.status}"
+    return f"  part {k} of {len(entry.sections)} ({section.label or 'whole region'}) -- {section.status}"
 
 
 def claim_lines(entry: ClaimEntry) -> list[str]:
     declared = f" (declared {entry.expect})" if entry.expect and entry.expect != entry.status else ""
-    lines = [f"{entry.name or entry.statement}: {entry.status}{declared}", f"  {entry.statement}"]
+    lines = [f"{entry.name or entry.statement} -- {entry.status}{declared}", f"  {entry.statement}"]
     lines += [f"  note: {n}" for n in entry.notes]
     for k, section in enumerate(entry.sections, 1):
         lines += section_lines(section, part_heading(entry, k, section))
@@ -103,7 +104,5 @@ def render_text(report: Report) -> str:
     lines.append(f"Solver: {solver_text(report)}")
     for entry in report.claims:
         lines += [""] + claim_lines(entry)
-    counts = report.status_counts
-    lines += ["", f"Summary: {counts['proved']} proved, {counts['refuted']} refuted, "
-                  f"{counts['unknown']} unknown.", report.caution]
+    lines += ["", tally_sentence(report.status_counts), report.caution]
     return "\n".join(lines) + "\n"

@@ -150,3 +150,17 @@ def overall(statuses: Iterable[str]) -> str:
 def tally(statuses: Iterable[str]) -> dict[str, int]:
     statuses = list(statuses)
     return {s: statuses.count(s) for s in (PROVED, REFUTED, UNKNOWN)}
+
+
+def tally_sentence(counts: Mapping[str, int]) -> str:
+    """The closing sentence of a run: 'Of 8 claims, 5 are proved, 2 refuted and 1 undecided.'"""
+    total = sum(counts.values())
+    if total == 0:
+        return "No claims were checked."
+    if total == 1:
+        status = next(s for s, n in counts.items() if n)
+        word = "undecided (unknown)" if status == UNKNOWN else status
+        return f"The one claim is {word}."
+    parts = [f"{counts[PROVED]} proved", f"{counts[REFUTED]} refuted", f"{counts[UNKNOWN]} undecided"]
+    return f"Of {total} claims, {parts[0].split()[0]} {'is' if counts[PROVED] == 1 else 'are'} proved, " \
+           f"{parts[1]} and {parts[2]}."

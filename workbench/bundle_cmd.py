@@ -30,6 +30,8 @@ from verifier.render_markdown import render_markdown
 from verifier.report import Report
 
 from .casefile import load_case
+from .output_target import shown_path
+from verifier.verdicts import tally_sentence
 from .check_cmd import select
 from .exit_codes import exit_code
 from .plots import regime_map, save_figure, slice_figure
@@ -158,7 +160,5 @@ def run(args) -> int:
         write_bundle(report, args.outdir, str(args.case), args.force)
     except OSError as exc:   # a full disk or a folder made read-only meanwhile
         raise write_error(exc, args.outdir, "bundle") from None
-    counts = report.status_counts
-    print(f"bundle written to {args.outdir}: {len(report.claims)} claims, {counts['proved']} proved, "
-          f"{counts['refuted']} refuted, {counts['unknown']} unknown")
+    print(f"bundle written to {shown_path(args.outdir)}: {tally_sentence(report.status_counts)}")
     return exit_code(c.status for c in report.claims)

@@ -8,6 +8,7 @@ from . import verdict_text as vt
 from .casefile import load_case
 from .decide import decide
 from .exit_codes import exit_code
+from verifier.verdicts import tally, tally_sentence
 
 
 def configure(p) -> None:
@@ -65,9 +66,7 @@ def text_lines(case, outcomes, args) -> list[str]:
     lines = header_lines(case, args)
     for o in outcomes:
         lines += vt.outcome_lines(o) + [""]
-    counts = {s: sum(o.status == s for o in outcomes) for s in ("proved", "refuted", "unknown")}
-    lines.append(f"Summary: {counts['proved']} proved, {counts['refuted']} refuted, "
-                 f"{counts['unknown']} unknown.")
+    lines.append(tally_sentence(tally(o.status for o in outcomes)))
     lines.append(vt.CAUTION)
     return lines
 

@@ -71,14 +71,15 @@ def _text(x) -> str:
 # ---------------------------------------------------------------------------------------------
 
 def _badge(status: str) -> str:
+    """The verdict as a word after the claim (colour helps, the word alone must do: no colour needed)."""
     return (f'<span style="color:{COLOURS.get(status, "#000")};font-weight:bold">'
-            f"{escape(status.upper())}</span>")
+            f"{escape(status)}</span>")
 
 
 def _html(x) -> str:
     if _is_outcome(x):
         cc = x.case_claim
-        parts = [f"<div>{_badge(x.status)} <b>{escape(cc.claim.name)}</b>: {escape(cc.claim.text())}"]
+        parts = [f"<div><b>{escape(cc.claim.name)}</b> &mdash; {_badge(x.status)}<br>{escape(cc.claim.text())}"]
         for name, point in x.uncovered:
             parts.append(f"<br>not covered by a regime of <code>{escape(name)}</code>: "
                          f"{escape(vt.point_text(point))}")
@@ -86,7 +87,7 @@ def _html(x) -> str:
             if v.counterexample is not None:
                 parts.append(("<br>" + escape(label) if label else "") + _cex_table(v))
         return "".join(parts) + "</div>"
-    head = f"<div>{_badge(x.status)} {escape(x.claim.text())}"
+    head = f"<div>{escape(x.claim.name or 'claim')} &mdash; {_badge(x.status)}<br>{escape(x.claim.text())}"
     if x.detail:
         head += f"<br><i>{escape(x.detail)}</i>"
     return head + (_cex_table(x) if x.counterexample is not None else "") + "</div>"
@@ -158,10 +159,10 @@ def claim_latex(claim) -> str:
 
 def _latex(x) -> str:
     if _is_outcome(x):
-        lines = [rf"\textbf{{{x.status.upper()}}}\ " + claim_latex(x.case_claim.claim)]
+        lines = [claim_latex(x.case_claim.claim) + rf"\quad \text{{({x.status})}}"]
         lines += [_cex_latex(v) for _, v in x.verdicts if v.counterexample is not None]
         return r" \\ ".join(lines)
-    line = rf"\textbf{{{x.status.upper()}}}\ " + claim_latex(x.claim)
+    line = claim_latex(x.claim) + rf"\quad \text{{({x.status})}}"
     return line + (r" \\ " + _cex_latex(x) if x.counterexample is not None else "")
 
 

@@ -16,7 +16,10 @@ from verifier.witness import Counterexample
 
 from verifier.report import CAUTION  # one wording everywhere: terminal, bundles, reports
 
-TAGS = {"proved": "PROVED ", "refuted": "REFUTED", "unknown": "UNKNOWN"}
+
+def verdict_phrase(status: str, expect: str | None = None) -> str:
+    """'proved', or 'refuted (declared proved)' when the case file declared another verdict."""
+    return status + (f" (declared {expect})" if expect and expect != status else "")
 
 
 def fmt(q: Fraction) -> str:
@@ -62,9 +65,7 @@ def _active(names) -> str:
 
 def verdict_lines(verdict: Verdict, expect: str | None = None) -> list[str]:
     c = verdict.claim
-    head = f"[{TAGS[verdict.status]}] {c.name}"
-    if expect and expect != verdict.status:
-        head += f"   << declared {expect} >>"
+    head = f"{c.name or 'claim'} -- {verdict_phrase(verdict.status, expect)}"
     lines = [head, f"    {c.text()}   ({verdict.seconds:.2f} s, {verdict.solver})"]
     if verdict.detail:
         lines.append(f"    note: {verdict.detail}")
@@ -76,9 +77,7 @@ def verdict_lines(verdict: Verdict, expect: str | None = None) -> list[str]:
 def outcome_lines(outcome) -> list[str]:
     """A case claim: its overall verdict, uncovered points, and the failing (or every) sub-claim."""
     cc = outcome.case_claim
-    head = f"[{TAGS[outcome.status]}] {cc.claim.name}"
-    if cc.expect and cc.expect != outcome.status:
-        head += f"   << declared {cc.expect} >>"
+    head = f"{cc.claim.name} -- {verdict_phrase(outcome.status, cc.expect)}"
     lines = [head, f"    {cc.claim.text()}   ({outcome.seconds:.2f} s)"]
     for name, point in outcome.uncovered:
         lines.append(f"    not covered: no regime of '{name}' contains {point_text(point)} "
@@ -86,7 +85,7 @@ def outcome_lines(outcome) -> list[str]:
     lines += [f"    note: {n}" for n in outcome.notes if n]
     for label, v in outcome.verdicts:
         if label:
-            lines.append(f"    [{TAGS[v.status]}] {label}")
+            lines.append(f"    part {label} -- {v.status}")
         if v.detail:
             lines.append(f"    note: {v.detail}")
         if v.counterexample is not None:
