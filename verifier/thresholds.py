@@ -39,17 +39,40 @@ def equation_text(form: Affine) -> str:
     return atom_text(form, "==").replace(" == ", " = ")
 
 
-def _facet_box(p, h: Affine, names):
-    """(bounding box, vertex set) of the closure's vertices on h = 0; box None: unbounded polytope,
-    box unknown; box (): no vertex on h, so a bounded polytope has no facet there.  Computed once per
-    polytope and hyperplane, so comparing many pairs costs only comparisons."""
-    on = [v for v in p.vertices if h.const + sum(c * v[n] for n, c in h.coeffs) == 0]
-    verts = frozenset(tuple(v[n] for n in names) for v in on)
+def _lcm_den(values) -> int:
+    out = 1
+    for x in values:
+        d = Fraction(x).denominator
+        out = out * d // gcd(out, d)
+    return out
+
+
+def _integer_vertices(p, names, cache: dict):
+    """(L, vertices as integer tuples L * v): once per polytope, so that every plane and pair test
+    afterwards is integer arithmetic."""
+    got = cache.get(id(p))
+    if got is None:
+        scale = _lcm_den(v[n] for v in p.vertices for n in names)
+        got = (scale, [tuple(int(v[n] * scale) for n in names) for v in p.vertices])
+        cache[id(p)] = got
+    return got
+
+
+def _facet_box(p, h: Affine, names, cache: dict, plane_scale: int):
+    """(bounding box, vertex set) of the closure's vertices on h = 0, as integers scaled by
+    `plane_scale`; box None: unbounded polytope, box unknown; box (): no vertex on h, so a bounded
+    polytope has no facet there.  Computed once per polytope and hyperplane."""
+    scale, verts = _integer_vertices(p, names, cache)
+    m = _lcm_den([c for _, c in h.coeffs] + [h.const])
+    w = [int(h.coeff(n) * m) for n in names]
+    c = int(h.const * m) * scale
+    up = plane_scale // scale
+    on = frozenset(tuple(x * up for x in v) for v in verts if sum(a * x for a, x in zip(w, v)) + c == 0)
     if not p.bounded:
-        return None, verts
+        return None, on
     if not on:
-        return (), verts
-    return tuple((min(v[n] for v in on), max(v[n] for v in on)) for n in names), verts
+        return (), on
+    return tuple((min(v[k] for v in on), max(v[k] for v in on)) for k in range(len(names))), on
 
 
 def _apart(box_a, box_b) -> bool:
@@ -66,7 +89,7 @@ def _affine_rank(points) -> int:
     points = list(points)
     if not points:
         return -1
-    rows = [[x - y for x, y in zip(p, points[0])] for p in points[1:]]
+    rows = [[Fraction(x - y) for x, y in zip(p, points[0])] for p in points[1:]]
     rank, col, width = 0, 0, len(points[0])
     while rank < len(rows) and col < width:
         pivot = next((r for r in range(rank, len(rows)) if rows[r][col] != 0), None)
@@ -165,19 +188,17 @@ def thresholds(regimes: Sequence, names: Sequence[str], budget=None) -> tuple[Th
                     h = normalise(atom.form)
                     side = atom.form.coeffs[0][1] > 0
                     planes.setdefault(h, []).append((r, p, side))
-    out = []
+    out, cache = [], {}
     for h, owners in planes.items():
         if budget is not None:
             budget.check("thresholds")
         if len({r for r, _, _ in owners}) < 2:
             continue
-        facets = [_facet_box(p, h, names) for _, p, _ in owners]
         scale = 1
-        for _, verts in facets:
-            for v in verts:
-                for x in v:
-                    scale = scale * x.denominator // gcd(scale, x.denominator)
-        scaled = [frozenset(tuple(int(x * scale) for x in v) for v in verts) for _, verts in facets]
+        for _, p, _ in owners:
+            k = _integer_vertices(p, names, cache)[0]
+            scale = scale * k // gcd(scale, k)
+        facets = [_facet_box(p, h, names, cache, scale) for _, p, _ in owners]
         seps = [_integer_rows(_separators(p, h, names), scale) if p.bounded and p.dim == len(names)
                 else None for _, p, _ in owners]
         pairs = set()
@@ -193,7 +214,7 @@ def thresholds(regimes: Sequence, names: Sequence[str], budget=None) -> tuple[Th
                 if _apart(box_a, box_b):
                     continue
                 if seps[i] is not None and seps[j] is not None and \
-                        (_separated(seps[i], scaled[j]) or _separated(seps[j], scaled[i])):
+                        (_separated(seps[i], verts_b) or _separated(seps[j], verts_a)):
                     continue
                 if _share_facet(pa, verts_a, verts_b) or _adjacent(pa, pb, h, names):
                     pairs.add(key)
