@@ -112,45 +112,36 @@ def _share_facet(a, verts_a, verts_b) -> bool:
     return len(common) >= a.dim and _affine_rank(common) >= a.dim - 1
 
 
-def _separators(p, h: Affine, names):
-    """The piece's constraints as (coefficient vector, constant), except those parallel to h: any of
-    them that is <= 0 on the other piece's whole facet separates the two facets within h."""
-    hv = [h.coeff(n) for n in names]
-    out = []
-    for atom in p.polyhedron.atoms:
-        v = [atom.form.coeff(n) for n in names]
-        if not _parallel(v, hv):
-            out.append((v, atom.form.const))
-    return out
+def _integer_atoms(p, names, cache: dict):
+    """The piece's constraints as primitive integer rows (w, c) with the sign of w.x + c: once per
+    polytope (all later tests are integer arithmetic)."""
+    key = ("atoms", id(p))
+    if key not in cache:
+        rows = []
+        for atom in p.polyhedron.atoms:
+            m = _lcm_den([c for _, c in atom.form.coeffs] + [atom.form.const])
+            coeffs = dict(atom.form.coeffs)
+            rows.append(([int(coeffs.get(n, 0) * m) for n in names], int(atom.form.const * m)))
+        cache[key] = rows
+    return cache[key]
 
 
 def _parallel(u, w) -> bool:
-    """Are the vectors u and w proportional?"""
+    """Are the integer vectors u and w proportional (u x w = 0 componentwise)?"""
     k = next((i for i, x in enumerate(w) if x != 0), None)
     if k is None:
         return True
-    ratio = u[k] / w[k]
-    return all(x == ratio * y for x, y in zip(u, w))
+    return all(x * w[k] == y * u[k] for x, y in zip(u, w))
 
 
-def _integer_rows(rows, scale: int):
-    """Separators (v, c) as integer rows (M v, M c scale) with M > 0, for points scaled by `scale`:
-    the sign of v.x + c is the sign of (M v).(scale x) + M c scale."""
-    out = []
-    for v, c in rows:
-        m = 1
-        for q in list(v) + [c]:
-            m = m * q.denominator // gcd(m, q.denominator)
-        out.append(([int(x * m) for x in v], int(c * m * scale)))
-    return out
-
-
-def _separated(rows, verts) -> bool:
-    """Quick exact rejection: a constraint of one piece (valid on its facet) is <= 0 on every vertex
-    of the other (bounded) facet, so the facets meet only inside that constraint's boundary: a set of
-    dimension below the facets' own.  Integer rows and integer-scaled vertices: exact and fast."""
-    return bool(verts) and any(all(sum(c * x for c, x in zip(v, p)) + c0 <= 0 for p in verts)
-                               for v, c0 in rows)
+def _separated(rows, hv, scale: int, verts) -> bool:
+    """Quick exact rejection: a constraint of one piece (valid on its facet), not parallel to the
+    plane (normal hv), is <= 0 on every vertex of the other (bounded) facet, so the facets meet only
+    inside that constraint's boundary: a set of dimension below the facets' own.  `verts` are
+    integer vertices scaled by `scale`, so w.x + c <= 0 is w.X + c*scale <= 0."""
+    return bool(verts) and any(not _parallel(w, hv) and
+                               all(sum(a * x for a, x in zip(w, v)) + c * scale <= 0 for v in verts)
+                               for w, c in rows)
 
 
 def _adjacent(a, b, h: Affine, names) -> bool:
@@ -199,8 +190,10 @@ def thresholds(regimes: Sequence, names: Sequence[str], budget=None) -> tuple[Th
             k = _integer_vertices(p, names, cache)[0]
             scale = scale * k // gcd(scale, k)
         facets = [_facet_box(p, h, names, cache, scale) for _, p, _ in owners]
-        seps = [_integer_rows(_separators(p, h, names), scale) if p.bounded and p.dim == len(names)
-                else None for _, p, _ in owners]
+        m = _lcm_den([c for _, c in h.coeffs] + [h.const])
+        hv = [int(h.coeff(n) * m) for n in names]
+        seps = [_integer_atoms(p, names, cache) if p.bounded and p.dim == len(names) else None
+                for _, p, _ in owners]
         pairs = set()
         for i, (ra, pa, sa) in enumerate(owners):
             if budget is not None:
@@ -214,7 +207,7 @@ def thresholds(regimes: Sequence, names: Sequence[str], budget=None) -> tuple[Th
                 if _apart(box_a, box_b):
                     continue
                 if seps[i] is not None and seps[j] is not None and \
-                        (_separated(seps[i], verts_b) or _separated(seps[j], verts_a)):
+                        (_separated(seps[i], hv, scale, verts_b) or _separated(seps[j], hv, scale, verts_a)):
                     continue
                 if _share_facet(pa, verts_a, verts_b) or _adjacent(pa, pb, h, names):
                     pairs.add(key)
