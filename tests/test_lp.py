@@ -5,10 +5,11 @@ check; the engine itself never touches floats.
 """
 
 from fractions import Fraction as F
+from itertools import combinations
 
 import numpy as np
 import pytest
-from hypothesis import given, settings
+from hypothesis import example, given, settings
 from hypothesis import strategies as st
 from scipy.optimize import linprog
 from scipy.spatial import ConvexHull
@@ -43,16 +44,122 @@ def _scipy_min(form, atoms, names):
     return res
 
 
+def _solve_exact(columns, rhs):
+    """The unique y with sum_j y_j columns[j] == rhs (exact Gaussian elimination), or None when the
+    system is inconsistent or its columns are dependent."""
+    m, k = len(rhs), len(columns)
+    rows = [[F(columns[j][i]) for j in range(k)] + [F(rhs[i])] for i in range(m)]
+    r = 0
+    for col in range(k):
+        piv = next((i for i in range(r, m) if rows[i][col] != 0), None)
+        if piv is None:
+            return None  # dependent columns: not a basic solution
+        rows[r], rows[piv] = rows[piv], rows[r]
+        rows[r] = [v / rows[r][col] for v in rows[r]]
+        for i in range(m):
+            if i != r and rows[i][col] != 0:
+                f = rows[i][col]
+                rows[i] = [a - f * b for a, b in zip(rows[i], rows[r])]
+        r += 1
+    if any(row[-1] != 0 for row in rows[r:]):
+        return None
+    return [rows[j][-1] for j in range(k)]
+
+
+def _linear(form, names):
+    return [F(form.coeff(n)) for n in names]
+
+
+def _descent_ray(form, atoms, names):
+    """An exact d with a_i.d >= 0 for every atom and form.d < 0, or None when there is none.
+
+    Brute force, independent of verifier.lp: if such a d exists, min form.d over the cone cut by the
+    box -1 <= d_k <= 1 is negative and attained at a vertex, the unique solution of n independent tight
+    planes among a_i.d = 0 and d_k = +-1; so every choice of n planes is solved and checked."""
+    n = len(names)
+    planes = [(_linear(a.form, names), F(0)) for a in atoms]
+    planes += [([F(int(j == k)) for j in range(n)], F(s)) for k in range(n) for s in (1, -1)]
+    for chosen in combinations(planes, n):
+        d = _solve_exact([list(col) for col in zip(*[p for p, _ in chosen])], [b for _, b in chosen])
+        if d is None or any(abs(x) > 1 for x in d):
+            continue
+        if all(sum(c * x for c, x in zip(_linear(a.form, names), d)) >= 0 for a in atoms) and \
+                sum(c * x for c, x in zip(_linear(form, names), d)) < 0:
+            return d
+    return None
+
+
+def _farkas_infeasibility(atoms, names):
+    """Exact y >= 0 with sum y_i a_i == 0 (linear parts) and sum y_i b_i == -1 (Farkas' lemma: the
+    closure is then empty), or None.  Brute force over basic solutions (supports of independent
+    columns), independent of verifier.lp."""
+    cols = [_linear(a.form, names) + [F(a.form.const)] for a in atoms]
+    rhs = [F(0)] * len(names) + [F(-1)]
+    for size in range(1, min(len(cols), len(rhs)) + 1):
+        for support in combinations(range(len(cols)), size):
+            y = _solve_exact([cols[i] for i in support], rhs)
+            if y is not None and all(v >= 0 for v in y):
+                return dict(zip(support, y))
+    return None
+
+
+def _assert_certified(ours, form, atoms, names):
+    """The tool's answer checked exactly, without scipy (used when scipy's status is not decisive)."""
+    closure = Polyhedron(tuple(a.relaxed() for a in atoms))
+    if ours.status == "unbounded":
+        assert closure.contains(ours.point)
+        assert _descent_ray(form, atoms, names) is not None
+    elif ours.status == "infeasible":
+        y = _farkas_infeasibility(atoms, names)
+        assert y is not None
+        for n in names:  # the identity itself, re-checked
+            assert sum(v * atoms[i].form.coeff(n) for i, v in y.items()) == 0
+        assert sum(v * atoms[i].form.const for i, v in y.items()) == -1
+    else:
+        assert ours.status == "optimal" and closure.contains(ours.point)
+        point_value = form.const + sum(c * ours.point[n] for n, c in form.coeffs)
+        assert point_value == ours.value and all(y >= 0 for y in ours.multipliers)
+        # form == value + sum y_i atom_i identically, so form >= value on the closure
+        for n in names:
+            assert form.coeff(n) == sum(y * a.form.coeff(n) for y, a in zip(ours.multipliers, atoms))
+        assert form.const == ours.value + sum(y * a.form.const for y, a in zip(ours.multipliers, atoms))
+
+
+def _scipy_expected(form, atoms, names):
+    """scipy's verdict, or None when its status is not decisive (1: iteration limit, 4: numerical
+    difficulties / HiGHS model status unknown, or an 'infeasible' whose feasibility probe is not)."""
+    ref = _scipy_min(form, atoms, names)  # scipy HiGHS as float oracle
+    expected = {0: "optimal", 2: "infeasible", 3: "unbounded"}.get(ref.status)
+    if expected == "infeasible":
+        probe = _scipy_min(affine({}), atoms, names).status
+        if probe == 0:
+            expected = "unbounded"  # HiGHS may report 'infeasible or unbounded' as infeasible
+        elif probe != 2:
+            expected = None
+    return expected, ref
+
+
+# HiGHS (scipy 1.17) returns status 4, "model_status is Unknown", on this program, which is unbounded.
+_STATUS_4 = ((NAMES, [Atom(affine({"a": 3, "b": F(3, 2), "c": F(5, 3)}, F(-4, 3)), True),
+                      Atom(affine({"a": 4, "c": F(5, 2)}, F(7, 2)), True),
+                      Atom(affine({"a": F(-11, 3), "b": 3, "c": F(-2, 3)}, -3), True),
+                      Atom(affine({"a": F(-2, 3), "b": F(-5, 3), "c": 3}, 4), True),
+                      Atom(affine({"a": 4, "b": F(-4, 3), "c": F(3, 2)}, F(7, 3)), False),
+                      Atom(affine({"a": F(8, 3), "b": -2, "c": F(10, 3)}, F(11, 3)), False)]),
+             [F(2), F(-11, 3), F(3, 2)])
+
+
 @settings(max_examples=150, deadline=None)
 @given(polyhedra(3), st.lists(small, min_size=3, max_size=3))
+@example(*_STATUS_4)
 def test_minimize_matches_scipy_and_multipliers_are_a_farkas_identity(poly, c):
     names, atoms = poly
     form = affine(zip(names, c))
     ours = minimize(form, atoms, names)
-    ref = _scipy_min(form, atoms, names)  # scipy HiGHS as float oracle
-    expected = {0: "optimal", 2: "infeasible", 3: "unbounded"}[ref.status]
-    if expected == "infeasible" and _scipy_min(affine({}), atoms, names).status == 0:
-        expected = "unbounded"  # HiGHS may report 'infeasible or unbounded' as infeasible
+    _assert_certified(ours, form, atoms, names)  # exact, whatever scipy says
+    expected, ref = _scipy_expected(form, atoms, names)
+    if expected is None:
+        return  # scipy undecided: the exact certificate above is the check
     assert ours.status == expected
     if ours.status == "optimal":
         assert abs(float(ours.value) - (ref.fun + float(form.const))) < 1e-7
@@ -61,6 +168,18 @@ def test_minimize_matches_scipy_and_multipliers_are_a_farkas_identity(poly, c):
         shifted = affine(form.coeffs, form.const - ours.value)
         cert = farkas(shifted, [a.relaxed() for a in atoms], names, strict=False)
         assert cert is not None and check_farkas(shifted, [a.relaxed() for a in atoms], cert, False)
+
+
+def test_exact_oracle_certificates_refuse_wrong_answers():
+    a, b = param("a"), param("b")
+    names = ("a", "b")
+    quadrant = [*atoms_of(a, ">=", 0), *atoms_of(b, ">=", 0)]
+    assert _descent_ray(affine({"a": 1, "b": 1}), quadrant, names) is None   # bounded below
+    assert _descent_ray(affine({"a": -1}), quadrant, names) == [F(1), F(0)]  # a grows freely
+    assert _farkas_infeasibility(quadrant, names) is None
+    empty = [*atoms_of(a, ">=", 1), *atoms_of(a, "<=", 0)]
+    y = _farkas_infeasibility(empty, names)
+    assert y is not None and set(y) == {0, 1}
 
 
 @settings(max_examples=150, deadline=None)

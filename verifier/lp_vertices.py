@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import lru_cache
 from fractions import Fraction
 from typing import Sequence
 
@@ -82,6 +83,13 @@ def _add_constraint(h, idx, rays, lines):
     return out, lines
 
 
+@lru_cache(maxsize=1 << 16)
+def _vector(form: Affine, names: tuple[str, ...]) -> tuple[int, ...]:
+    """A form as a primitive integer vector; memoised, since the same cut and bound forms are asked
+    about on every cell (forms are immutable and hashable)."""
+    return _integer(rows_of([form], names)[0][0], form.const)
+
+
 @dataclass(frozen=True)
 class Cone:
     """The homogenised cone {(x, s): a_i.x + b_i s >= 0, s >= 0} of a polyhedron's closure, kept
@@ -112,7 +120,7 @@ class Cone:
 
     def add(self, form: Affine) -> "Cone":
         """The cone of the polyhedron cut by form >= 0."""
-        return self._add(_integer(rows_of([form], self.names)[0][0], form.const))
+        return self._add(_vector(form, self.names))
 
     @property
     def empty(self) -> bool:
@@ -120,7 +128,7 @@ class Cone:
 
     def vector(self, form: Affine) -> tuple[int, ...]:
         """The form as a primitive integer vector (coefficients in `names` order, then constant)."""
-        return _integer(rows_of([form], self.names)[0][0], form.const)
+        return _vector(form, self.names)
 
     def nonneg(self, form: Affine) -> bool:
         """Is form >= 0 on the whole closure?  (Exact: a sign check per generator.)"""

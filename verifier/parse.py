@@ -19,12 +19,22 @@ from .errors import InputError, NonlinearError, ParseError, RegionError, Unknown
 from .expr import (Affine, Expr, abs_, add, children, const, constant_value, evaluate, is_constant,
                    max_, min_, param, params, pos, scale, to_text)
 from .lexer import Token, normalize_name, tokenize
-from .region import Atom, Polyhedron, Region, atoms_of
+from .region import (MAX_POLYHEDRA, Atom, Polyhedron, Product, Region, TooManyPolyhedra, atoms_of,
+                     direction, too_many_polyhedra, trivially_empty)
 
 MAX_DEPTH = 100       # bracket nesting; papers never come near it, and it keeps recursion bounded
 MAX_BITS = 665        # about 200 decimal digits for any computed numerator or denominator
-MAX_OTHERWISE_PIECES = 256  # the complement behind 'otherwise' is a product of negated atoms
 MAX_NODES = 20000     # |x| = max(x, -x) doubles the tree, so nested bars could blow up exponentially
+# 'otherwise' is the complement of the earlier regimes, an intersection of unions of negated atoms.
+# Pruned exactly (empty and contained pieces dropped) it stays small for regimes that slice one or two
+# parameters (64 slices: a handful of pieces), but it is exponential in general: k regimes
+# `x_i <= 0, y_i <= 0` in distinct parameters leave 2^k maximal pieces.  Each piece costs every later
+# stage one more polyhedron, so beyond this many we ask for the region to be stated.
+MAX_OTHERWISE_PIECES = 256
+# Candidate pieces examined (pieces so far times atoms of the next regime, plus one overlap test per
+# piece), summed over all regimes: bounds the time spent on 'otherwise' before giving up (a few
+# seconds of small exact LPs at worst).  Slicing schemes need a few thousand (64 slices: about 400).
+MAX_OTHERWISE_WORK = 1 << 15
 FUNCTIONS = {"min": "min", "max": "max", "Min": "min", "Max": "max", "pos": "pos", "abs": "abs",
              "Abs": "abs"}
 CLOSER = {"(": ")", "[": "]", "{": "}"}
@@ -57,13 +67,6 @@ def _tree_size(e: Expr, memo: dict) -> int:
     return hit[1]
 
 
-def _direction(atom: Atom) -> tuple[tuple, Fraction, bool]:
-    """(coefficients scaled so the first has magnitude 1, scaled constant, strict)."""
-    scale_by = abs(atom.form.coeffs[0][1])
-    coeffs = tuple((n, c / scale_by) for n, c in atom.form.coeffs)
-    return coeffs, atom.form.const / scale_by, atom.strict
-
-
 def _tidy(poly: Polyhedron) -> Polyhedron | None:
     """Drop a polyhedron that a false constant atom or an opposite pair of atoms makes empty, and keep
     only the tightest of parallel atoms.  Exact and cheap (no LP, so some empty ones remain)."""
@@ -73,7 +76,7 @@ def _tidy(poly: Polyhedron) -> Polyhedron | None:
             if not atom.holds({}):
                 return None
             continue
-        coeffs, k, strict = _direction(atom)  # the atom says L + k > 0 (or >= 0)
+        coeffs, k, strict = direction(atom)  # the atom says L + k > 0 (or >= 0)
         old = best.get(coeffs)
         if old is None or k < old[0] or (k == old[0] and strict):
             best[coeffs] = (k, strict, atom)
@@ -85,6 +88,65 @@ def _tidy(poly: Polyhedron) -> Polyhedron | None:
                 return None
     kept = {entry[2] for entry in best.values()}
     return Polyhedron(tuple(a for a in poly.atoms if a in kept))
+
+
+class _Directions:
+    """Small integer ids for atom directions, so that a polyhedron's set of directions is a bit mask
+    and most containment tests are one integer operation."""
+
+    def __init__(self):
+        self.ids: dict[int, int] = {}  # region.direction_id -> bit
+
+    def bounds(self, poly: Polyhedron) -> tuple[int, dict[int, tuple[Fraction, bool]]]:
+        """(mask of directions, id -> (k, strict)) of a tidied polyhedron: one atom `L + k > 0`
+        (or >= 0) per direction."""
+        mask, out = 0, {}
+        for atom in poly.atoms:
+            _, k, strict = direction(atom)
+            i = self.ids.setdefault(atom.direction_id, len(self.ids))
+            mask |= 1 << i
+            out[i] = (k, strict)
+        return mask, out
+
+
+def _inside(p_bounds: tuple, q_bounds: tuple) -> bool:
+    """Syntactic P within Q: every atom of Q is implied by a parallel atom of P (L + k_p >= 0 with
+    k_p <= k_q, strict where Q's is).  Exact; False proves nothing."""
+    (p_mask, p), (q_mask, q) = p_bounds, q_bounds
+    if q_mask & ~p_mask:
+        return False
+    for i, (kq, sq) in q.items():
+        kp, sp = p[i]
+        if kp > kq or (kp == kq and sq and not sp):
+            return False
+    return True
+
+
+def _nonempty(atoms, extra=()) -> bool:
+    """Is `atoms` plus `extra` non-empty?  Exact: the syntactic test first, then an exact LP
+    (verifier.lp.feasible).  With `extra` given, `atoms` must be known non-empty: only the atoms
+    linked to the extra ones through shared parameters can then conflict (the others form a
+    feasible system in other parameters), so the LP gets just those."""
+    from .lp import feasible
+    atoms, extra = tuple(atoms), tuple(extra)
+    if trivially_empty(atoms + extra):
+        return False
+    if extra:
+        names = {n for a in extra for n, _ in a.form.coeffs}
+        rest, block, grew = list(atoms), list(extra), True
+        while grew:
+            grew, left = False, []
+            for a in rest:
+                if any(n in names for n, _ in a.form.coeffs):
+                    block.append(a)
+                    names.update(n for n, _ in a.form.coeffs)
+                    grew = True
+                else:
+                    left.append(a)
+            rest = left
+        atoms = tuple(block)
+    names = sorted({n for a in atoms for n, _ in a.form.coeffs})
+    return feasible(atoms, names) is not None
 
 
 class Parser:
@@ -419,18 +481,64 @@ class Parser:
         return self.chain()
 
     def conjunction(self) -> Region:
-        out = self.region_item()
+        start = self.peek().pos
+        first = self.region_item()
+        if not (self.at("op", ",") or self.at("kw", "and")):
+            return first
+        out = Product(first)  # linear in the number of constraints, however many are met
         while self.at("op", ",") or self.at("kw", "and"):
             self.advance()
-            out = out.meet(self.region_item())
-        return out
+            item = self.region_item()
+            size = len(out.parts) * len(item.pieces)
+            try:  # Product checks the size before it builds anything
+                out.meet(item)
+            except TooManyPolyhedra as err:  # the message names what the whole conjunction expands into
+                if err.atoms is not None:
+                    raise too_many_polyhedra(size, self.source, start, err.atoms) from None
+                raise too_many_polyhedra(size * self.rest_size("and"), self.source, start) from None
+        return out.region()
 
     def disjunction(self) -> Region:
+        start = self.peek().pos
         out = self.conjunction()
         while self.at("kw", "or"):
             self.advance()
-            out = out.join(self.conjunction())
+            item = self.conjunction()
+            size = len(out.pieces) + len(item.pieces)
+            if size > MAX_POLYHEDRA:
+                raise too_many_polyhedra(size + self.rest_size("or"), self.source, start)
+            out = out.join(item)
         return out
+
+    def rest_size(self, within: str) -> int:
+        """How many polyhedra the rest of the current conjunction (`within` 'and': a factor) or
+        disjunction ('or': a summand) expands into, read off the tokens from the cursor to the end of
+        the enclosing group without building anything: a bracket counts the sum over its 'or' parts
+        of the product of the brackets in each part, anything else 1 (pruning ignored).  Only for
+        naming the size in the message of too_many_polyhedra."""
+        nested: list[list[int]] = []  # per open bracket: [sum of finished 'or' parts, current product]
+        total, part = 0, (1 if within == "and" else 0)
+        for tok in self.tokens[self.i:]:
+            if tok.kind in ("open", "gopen"):
+                nested.append([0, 1])
+            elif tok.kind == "end" or (not nested and (tok.kind in ("close", "gclose") or
+                                                       (tok.kind == "op" and tok.value == ";"))):
+                break
+            elif tok.kind in ("close", "gclose"):
+                done, prod = nested.pop()
+                if nested:
+                    nested[-1][1] *= done + prod
+                else:
+                    part *= done + prod
+            elif tok.kind == "kw" and tok.value == "or":
+                if nested:
+                    nested[-1][0] += nested[-1][1]
+                    nested[-1][1] = 1
+                elif within == "and":
+                    break
+                else:
+                    total, part = total + part, 1
+        return part if within == "and" else total + part
 
     def relation(self) -> tuple[Expr, str, Expr]:
         left = self.sum().expr
@@ -476,16 +584,50 @@ class Parser:
         return Piecewise(tuple(out))
 
     def complement(self, regions: list[Region], tok: Token) -> Region:
-        """Where none of `regions` holds, in disjunctive normal form (atoms negated exactly)."""
-        out = Region.everywhere()
-        for region in regions:
-            for poly in region.pieces:
-                out = out.meet(Region(tuple(Region.of(a.negated()).pieces[0] for a in poly.atoms)))
-                out = Region(tuple(p for p in map(_tidy, out.pieces) if p is not None))
-                if len(out.pieces) > MAX_OTHERWISE_PIECES:
-                    self.fail(f"'otherwise' would need more than {MAX_OTHERWISE_PIECES} polyhedra; "
-                              "state its region", tok.pos)
-        return out
+        """Where none of `regions` holds, exactly: the earlier regimes' polyhedra are removed one
+        after the other.  A piece that misses the removed polyhedron Q stays whole; a piece P that
+        meets it becomes P and not-a for each atom a of Q (negated exactly), each tidied, dropped when
+        empty (syntactic test, then an exact LP) or contained in another piece (syntactically).  The
+        pieces may overlap; their union is the complement.  Limits: MAX_OTHERWISE_PIECES and
+        MAX_OTHERWISE_WORK, each with a message naming how far it got."""
+        polys = [p for region in regions for p in region.pieces]
+        out: list[Polyhedron] = [Polyhedron(())]
+        work, dirs = 0, _Directions()
+        for k, q in enumerate(polys, 1):
+            work += len(out) * (1 + len(q.atoms))
+            if work > MAX_OTHERWISE_WORK:
+                self.fail(f"'otherwise' would take more than {MAX_OTHERWISE_WORK} steps to compute (limit "
+                          f"{MAX_OTHERWISE_WORK}; reached at regime polyhedron {k} of {len(polys)}, "
+                          f"with {len(out)} pieces so far); state its region", tok.pos, RegionError)
+            kept: list[tuple[Polyhedron, dict]] = []
+            for piece in out:
+                if not _nonempty(piece.atoms, q.atoms):
+                    self.keep(kept, dirs.bounds(piece), piece)
+                    continue
+                for atom in q.atoms:
+                    cand = _tidy(piece.meet(Polyhedron((atom.negated(),))))
+                    if cand is not None:
+                        self.keep(kept, dirs.bounds(cand), cand, piece, atom.negated())
+                if len(kept) > MAX_OTHERWISE_PIECES:
+                    self.fail(f"'otherwise' would need more than {MAX_OTHERWISE_PIECES} polyhedra (limit "
+                              f"{MAX_OTHERWISE_PIECES}; reached at regime polyhedron {k} of {len(polys)}); "
+                              "state its region", tok.pos, RegionError)
+            out = [p for p, _ in kept]
+        return Region(tuple(out))
+
+    @staticmethod
+    def keep(kept: list, bounds: tuple, piece: Polyhedron, parent: Polyhedron | None = None,
+             added: Atom | None = None) -> None:
+        """Add `piece` to `kept` unless a kept piece contains it or it is empty; drop kept pieces it
+        contains.  Without `parent` the piece is known non-empty; with it, the piece is the non-empty
+        `parent` and the atom `added` (tidied), which is what the emptiness test is told.
+        `bounds`: the piece's _Directions.bounds."""
+        if any(_inside(bounds, other) for _, other in kept):
+            return
+        if parent is not None and not _nonempty(parent.atoms, (added,)):
+            return
+        kept[:] = [(p, b) for p, b in kept if not _inside(b, bounds)]
+        kept.append((piece, bounds))
 
 
 # ---------------------------------------------------------------------------------------------

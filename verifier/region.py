@@ -4,18 +4,66 @@ A region is kept in disjunctive normal form because that is how papers state ass
 ("gamma > alpha > 1", "alpha <= 1/2 or alpha >= 2") and because every later stage (SMT encoding,
 regime splitting, certificates) works one polyhedron at a time.  Every atom is normalised to
 `form >= 0` or `form > 0` with `form` affine, so membership is one exact evaluation.
+
+Because `and` distributes over `or`, a region can have exponentially many polyhedra: Region.meet
+drops the trivially empty products and refuses a region of more than MAX_POLYHEDRA polyhedra (and,
+before building anything, a product of more than MAX_PRODUCT_PAIRS pairs).
 """
 
 from __future__ import annotations
 
+import threading
 from dataclasses import dataclass
 from fractions import Fraction
+from functools import cached_property
 from typing import Iterable, Mapping
 
 from .errors import InputError, RegionError
 from .expr import Affine, Expr, affine, eval_affine, lift, scale, add, to_text, format_number
 
 RELATIONS = ("<", "<=", "==", ">=", ">")
+
+# Largest number of polyhedra a region may have.  `and` distributes over `or`, so n groups of two
+# alternatives expand into 2^n polyhedra, and every later stage (SMT encoding, regime splitting,
+# certificates) works one polyhedron at a time: 2^16 of them took minutes and gigabytes before a
+# single query was asked.  Papers' assumptions have a handful; 4096 = 2^12 leaves ample room.
+MAX_POLYHEDRA = 4096
+# Largest product Region.meet examines, checked before anything is built.  Between MAX_POLYHEDRA and
+# this, the products are generated lazily with the trivially empty ones dropped and refused only when
+# more than MAX_POLYHEDRA survive: two schemes of 64 alpha-slices each meet in 4489 pairs of which
+# about 130 are non-empty.  16 pairs per allowed polyhedron: a fraction of a second of exact checks.
+MAX_PRODUCT_PAIRS = 16 * MAX_POLYHEDRA
+# Largest number of atoms over all the polyhedra of a region: every product copies its factors'
+# atoms, so 1024 polyhedra met with 1400 more constraints held 1.4 million atoms and took seconds to
+# build (and far longer in every later stage).  2^18 is 64 atoms in each of 4096 polyhedra.
+MAX_REGION_ATOMS = 1 << 18
+
+
+class TooManyPolyhedra(RegionError):
+    """A region over MAX_POLYHEDRA polyhedra or MAX_REGION_ATOMS atoms (see too_many_polyhedra);
+    `atoms` is the atom count in the second case, else None."""
+
+    atoms: int | None = None
+
+
+def count_text(n: int) -> str:
+    """An exact count, or its order of magnitude once it has more digits than anyone reads."""
+    return str(n) if n < 10 ** 15 else f"more than 10^{len(str(n)) - 1}"
+
+
+def too_many_polyhedra(n: int, source: str | None = None, position: int | None = None,
+                       atoms: int | None = None) -> TooManyPolyhedra:
+    """The one message for a region over MAX_POLYHEDRA (the caller raises it); `n` is the number of
+    polyhedra the distribution produces before empty ones are dropped.  With `atoms`: the region is
+    over MAX_REGION_ATOMS instead, with `n` polyhedra holding that many atoms."""
+    if atoms is not None:
+        err = TooManyPolyhedra(f"the region expands into {count_text(n)} polyhedra with {count_text(atoms)} "
+                               f"constraints in all (limit {MAX_REGION_ATOMS}); state fewer 'or' "
+                               "alternatives or fewer constraints", source, position)
+        err.atoms = atoms
+        return err
+    return TooManyPolyhedra(f"the region expands into {count_text(n)} polyhedra (limit {MAX_POLYHEDRA}); "
+                            "state fewer 'or' alternatives", source, position)
 
 
 @dataclass(frozen=True)
@@ -29,6 +77,18 @@ class Atom:
         value = eval_affine(self.form, point)
         return value > 0 if self.strict else value >= 0
 
+    def __hash__(self) -> int:  # cached: deduplicating long conjunctions hashes every atom often
+        got = self.__dict__.get("_hash")
+        if got is None:
+            got = self.__dict__["_hash"] = hash((self.form, self.strict))
+        return got
+
+    def __getstate__(self) -> dict:
+        """The fields only: the caches (hash, direction id) are valid in this process alone (string
+        hashes are salted per process, direction ids are numbered as met), so a pickled atom sent
+        to a worker process must recompute them there."""
+        return {"form": self.form, "strict": self.strict}
+
     def relaxed(self) -> "Atom":
         return Atom(self.form, False)
 
@@ -41,6 +101,19 @@ class Atom:
 
     def text(self) -> str:
         return atom_text(self.form, ">" if self.strict else ">=")
+
+    @cached_property
+    def direction(self) -> tuple[tuple, Fraction, bool]:
+        """See the module function `direction` (cached: the pruning of Region.meet asks often)."""
+        scale_by = abs(self.form.coeffs[0][1])
+        coeffs = tuple((n, c / scale_by) for n, c in self.form.coeffs)
+        return coeffs, self.form.const / scale_by, self.strict
+
+    @cached_property
+    def direction_id(self) -> int:
+        """A small integer naming the direction (see direction_id); the opposite one is
+        OPPOSITE[direction_id]."""
+        return direction_id(self.direction[0])
 
     def __str__(self) -> str:
         return self.text()
@@ -114,12 +187,86 @@ class Polyhedron:
     def text(self) -> str:
         return constraint_text(self.atoms)
 
+    @cached_property
+    def bounds(self) -> dict | None:
+        """bound_summary of the atoms (cached; do not mutate the dict)."""
+        return bound_summary(self.atoms)
+
+    def __getstate__(self) -> dict:
+        """The fields only (see Atom.__getstate__: the cached summary uses this process's ids)."""
+        return {"atoms": self.atoms}
+
 
 def _dedupe(atoms: Iterable[Atom]) -> tuple[Atom, ...]:
     out: dict[Atom, None] = {}
     for a in atoms:
         out.setdefault(a)
     return tuple(out)
+
+
+def direction(atom: Atom) -> tuple[tuple, Fraction, bool]:
+    """(coefficients scaled so the first has magnitude 1, constant scaled alike, strict): parallel
+    atoms share their first entry, and the atom reads `L + k > 0` (or `>= 0`) with L that direction."""
+    return atom.direction
+
+
+# Directions as small integers, so that bound summaries are keyed by ints (hashing tuples of Fractions
+# dominated long conjunctions).  Ids come in opposite pairs; the table only grows, by one entry per
+# direction ever seen, and a lock keeps it consistent if threads share it.
+_DIRECTION_IDS: dict[tuple, int] = {}
+OPPOSITE: list[int] = []
+_IDS_LOCK = threading.Lock()
+
+
+def direction_id(coeffs: tuple) -> int:
+    """The id of a normalised direction (first coefficient +-1, as `direction` gives)."""
+    got = _DIRECTION_IDS.get(coeffs)
+    if got is None:
+        with _IDS_LOCK:
+            got = _DIRECTION_IDS.get(coeffs)
+            if got is None:
+                got = len(OPPOSITE)
+                OPPOSITE.extend((got + 1, got))
+                _DIRECTION_IDS[tuple((n, -c) for n, c in coeffs)] = got + 1
+                _DIRECTION_IDS[coeffs] = got
+    return got
+
+
+def _tighter(a, b):
+    """The stronger of two bounds (k, strict) on one direction (`L + k > 0` / `>= 0`); None is none."""
+    if a is None or b is None:
+        return a if b is None else b
+    return a if a[0] < b[0] or (a[0] == b[0] and a[1]) else b
+
+
+def _excluded(lo, hi) -> bool:
+    """L + k >= 0 (lo) and -L + k2 >= 0 (hi), i.e. -k <= L <= k2, has no solution."""
+    return lo is not None and hi is not None and (-lo[0] > hi[0] or (-lo[0] == hi[0] and (lo[1] or hi[1])))
+
+
+def bound_summary(atoms: Iterable[Atom]) -> dict | None:
+    """direction id -> tightest (k, strict) over `atoms`, or None when they are trivially empty."""
+    tightest: dict[int, tuple[Fraction, bool]] = {}
+    for atom in atoms:
+        if not atom.form.coeffs:
+            if not atom.holds({}):
+                return None
+            continue
+        _, k, strict = atom.direction
+        key = atom.direction_id
+        tightest[key] = _tighter(tightest.get(key), (k, strict))
+    for key, bound in tightest.items():
+        if _excluded(bound, tightest.get(OPPOSITE[key])):
+            return None
+    return tightest
+
+
+def trivially_empty(atoms: Iterable[Atom]) -> bool:
+    """True when the conjunction is empty for a syntactic reason: a false constant atom, or two
+    opposite parallel atoms that exclude each other (`alpha > 1` and `alpha < 1`, `a - b >= 2` and
+    `b - a > -2`).  Exact (Fractions) and linear in the number of atoms; False proves nothing (an
+    LP may still find the polyhedron empty)."""
+    return bound_summary(atoms) is None
 
 
 @dataclass(frozen=True)
@@ -146,9 +293,16 @@ class Region:
         return out
 
     def meet(self, other: "Region") -> "Region":
-        return Region(tuple(p.meet(q) for p in self.pieces for q in other.pieces))
+        """The intersection, distributed into polyhedra, with the trivially empty products dropped;
+        TooManyPolyhedra beyond the limits (see Product)."""
+        product = Product(self)
+        product.meet(other)
+        return product.region()
 
     def join(self, other: "Region") -> "Region":
+        size = len(self.pieces) + len(other.pieces)
+        if size > MAX_POLYHEDRA:
+            raise too_many_polyhedra(size)
         return Region(self.pieces + other.pieces)
 
     def interior(self) -> "Region":
@@ -185,6 +339,87 @@ class Region:
 
     def __str__(self) -> str:
         return self.text()
+
+
+class Product:
+    """The intersection of regions met one after the other, distributed into polyhedra whose atoms
+    come in the order the regions were given (what repeated Polyhedron.meet gives).
+
+    Kept lazily, so that long conjunctions stay linear: each polyhedron of the partial product is a
+    summary of its tightest bounds (see bound_summary; updated in place when a region has a single
+    polyhedron) and a linked list of the atom tuples met so far, joined only by `region()`.  A product
+    that is trivially empty (see trivially_empty) is dropped; when every product is, the first is kept,
+    so that the result still reads as the contradiction that was written (`1 < alpha < 0`) and callers
+    report an empty region rather than 'nowhere'.
+
+    `meet` raises TooManyPolyhedra, naming the number of products of that step, when the step has
+    more than MAX_PRODUCT_PAIRS of them (before anything is built), when more than MAX_POLYHEDRA of
+    them survive (as they are built), or when the atoms would exceed MAX_REGION_ATOMS (counted before
+    each step); the product is then unusable."""
+
+    def __init__(self, first: Region):
+        # one entry per polyhedron: [summary or None (contradictory), summary owned?, chain, atoms]
+        self.parts = [[p.bounds, False, (p.atoms, None), len(p.atoms)] for p in first.pieces]
+
+    def meet(self, region: Region) -> None:
+        size = len(self.parts) * len(region.pieces)
+        if size > MAX_PRODUCT_PAIRS:
+            raise too_many_polyhedra(size)
+        fewest = min((len(q.atoms) for q in region.pieces), default=0)
+        atoms = sum(part[3] for part in self.parts) + len(self.parts) * fewest
+        if atoms > MAX_REGION_ATOMS:
+            raise too_many_polyhedra(size, atoms=atoms)
+        if not self.parts or not region.pieces:
+            self.parts = []
+            return
+        out = []
+        for part in self.parts:
+            summary, owned, chain, count = part
+            alive = [] if summary is None else \
+                [q for q in region.pieces if q.bounds is not None and not _conflict(summary, q.bounds)]
+            if len(out) + len(alive) > MAX_POLYHEDRA:
+                raise too_many_polyhedra(size)
+            for k, q in enumerate(alive):
+                if k == len(alive) - 1 and owned:
+                    mine = summary
+                else:
+                    mine = dict(summary)
+                for key, bound in q.bounds.items():
+                    mine[key] = _tighter(mine.get(key), bound)
+                out.append([mine, True, (q.atoms, chain), count + len(q.atoms)])
+        if not out:  # every product is empty: keep the first, marked contradictory
+            first = self.parts[0]
+            out = [[None, False, (region.pieces[0].atoms, first[2]), first[3] + len(region.pieces[0].atoms)]]
+        self.parts = out
+
+    def region(self) -> Region:
+        pieces = []
+        for summary, _, chain, _ in self.parts:
+            chunks = []
+            while chain is not None:
+                chunks.append(chain[0])
+                chain = chain[1]
+            atoms: dict[Atom, None] = {}
+            for chunk in reversed(chunks):
+                for a in chunk:
+                    atoms.setdefault(a)
+            piece = Polyhedron(tuple(atoms))
+            piece.__dict__["bounds"] = summary  # the cache bound_summary would fill
+            pieces.append(piece)
+        return Region(tuple(pieces))
+
+
+def _conflict(p: dict, q: dict) -> bool:
+    """Would the atoms of summaries p and q (each consistent) together be trivially empty?  Only q's
+    directions can create a new conflict: one look-up per direction of q."""
+    for key, bound in q.items():
+        opposite = OPPOSITE[key]
+        other = p.get(opposite)
+        if other is None and len(q) > 1:
+            other = q.get(opposite)
+        if other is not None and _excluded(_tighter(p.get(key), bound), _tighter(other, q.get(opposite))):
+            return True
+    return False
 
 
 # ---------------------------------------------------------------------------------------------
