@@ -70,6 +70,7 @@ class CaseClaim:
     key: str
     subclaims: list = field(default_factory=list)   # [(label, Claim)] after expansion
     coverage: list = field(default_factory=list)    # [(name, Region)]: regimes that must cover it
+    blocked: str = ""                               # why the claim cannot be decided (expansion)
 
 
 @dataclass
@@ -87,6 +88,7 @@ class Case:
     regime_checks: list[PiecewiseCheck] = field(default_factory=list)
     piecewise: dict = field(default_factory=dict)    # name -> PiecewiseCheck (pieces + min/max form)
     raw: dict = field(default_factory=dict)
+    _resolving: tuple = field(default=(), repr=False, compare=False)
 
     def named(self) -> dict[str, Expr]:
         """Every name a claim may use, with `outer` and `inner` as the min and max of their tables.
@@ -101,10 +103,17 @@ class Case:
         return out
 
     def resolve(self, expr: Expr) -> Expr:
-        """Substitute names until only parameters and regime-wise placeholders remain."""
-        named = {k: v for k, v in self.named().items() if k not in self.piecewise}
+        """Substitute names until only parameters and regime-wise placeholders remain.
+
+        The table of names is built once per state of the case (not per call: a [network] with
+        thousands of cut bounds resolves each of them)."""
+        state = (len(self.outer), len(self.inner), len(self.formulas), len(self.piecewise))
+        if not self._resolving or self._resolving[0] != state:
+            named = {k: v for k, v in self.named().items() if k not in self.piecewise}
+            self._resolving = (state, named, frozenset(named))
+        _, named, keys = self._resolving
         for _ in range(len(named) + 2):
-            if not (params(expr) & set(named)):
+            if not (params(expr) & keys):
                 return expr
             expr = substitute(expr, named)
         raise InputError("definitions refer to each other in a cycle")

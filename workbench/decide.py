@@ -180,7 +180,7 @@ def decide(case_claim, solver="z3", timeout=30.0, cross_check=False, method="smt
     out = Outcome(case_claim, UNKNOWN)
     obligations = _coverage(case_claim, solver, clock)
     out.uncovered = [ob.evidence for ob in obligations if ob.status == REFUTED and ob.evidence]
-    blocked = getattr(case_claim, "blocked", "")
+    blocked = case_claim.blocked
     if blocked:
         obligations.append(Obligation("the claim can be stated with one formula", UNKNOWN, blocked))
     empty = 0
