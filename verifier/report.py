@@ -27,8 +27,7 @@ from .region import Atom
 from .thresholds import Threshold
 from .witness import Counterexample
 
-CAUTION = ("GDoF statements are asymptotic in SNR: a verdict here says nothing about rates at any "
-           "finite SNR, and it covers only the claim exactly as encoded.")
+from .verdicts import CAUTION  # one wording everywhere (re-exported here for renderers)
 
 
 @dataclass(frozen=True)

@@ -31,6 +31,9 @@ from typing import Callable, Iterable, Mapping, Sequence
 PROVED, REFUTED, UNKNOWN = "proved", "refuted", "unknown"
 STATUSES = (PROVED, REFUTED, UNKNOWN)
 
+CAUTION = ("GDoF statements are asymptotic in SNR: a verdict here says nothing about rates at any "
+           "finite SNR, and it covers only the claim exactly as encoded.")
+
 
 @dataclass(frozen=True)
 class Obligation:

@@ -65,17 +65,23 @@ def one_line(message) -> str:
     return "".join(ch if ch.isprintable() else repr(ch)[1:-1] for ch in str(message))
 
 
-def build_parser() -> argparse.ArgumentParser:
+def build_parser(argv=None) -> argparse.ArgumentParser:
+    """The parser; only the subcommand named in `argv` (every one when argv is None) is imported
+    and configured, so that a command loads only what it needs."""
     parser = _Parser(prog="gdof", description="Prove or refute GDoF claims region by region, exactly.")
     parser.add_argument("--debug", action="store_true", help="show tracebacks of internal errors")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     from . import commands
-    for name, (helptext, configure, run) in commands.REGISTRY.items():
+    wanted = None if argv is None else next((a for a in argv if not a.startswith("-")), "")
+    for name, (helptext, _) in commands.REGISTRY.items():
         p = sub.add_parser(name, help=helptext, description=helptext)
-        if getattr(configure, "solver_options", True):
+        if wanted is not None and name != wanted:
+            continue
+        mod = commands.module(name)
+        if getattr(mod.configure, "solver_options", True):
             _common(p)
-        configure(p)
-        p.set_defaults(run=run)
+        mod.configure(p)
+        p.set_defaults(run=mod.run)
     return parser
 
 
@@ -83,9 +89,9 @@ def main(argv=None) -> int:
     argv = sys.argv[1:] if argv is None else argv
     debug = "--debug" in argv
     try:
-        args = build_parser().parse_args(argv)
+        args = build_parser(argv).parse_args(argv)
         if not getattr(args, "run", None):
-            build_parser().print_help()
+            build_parser(argv).print_help()
             return EXIT_INPUT
         _check_args(args)
         code = args.run(args)

@@ -14,7 +14,7 @@ from verifier.prove import Verdict
 from verifier.smt import versions
 from verifier.witness import Counterexample
 
-from verifier.report import CAUTION  # one wording everywhere: terminal, bundles, reports
+from verifier.verdicts import CAUTION  # one wording everywhere: terminal, bundles, reports
 
 
 def verdict_phrase(status: str, expect: str | None = None) -> str:
