@@ -66,4 +66,7 @@ def case_fragment(network: Network, messages: Iterable[str] | None = None) -> st
     for key, (readable, expr) in bounds.items():
         lines.append(f"# {readable}")
         lines.append(f"{key} = {_toml_string(to_text(expr))}")
+    lines += ["", "# Next: put the scheme(s) to test in [inner] and state claims, for example", "# [inner]",
+              '# my_scheme = "..."', "# [[claims]]", '# name = "the scheme meets the cut-set bound"',
+              '# statement = "inner == outer"', '# expect = "proved"']
     return "\n".join(lines) + "\n"

@@ -121,3 +121,16 @@ def test_cli_report_json_and_exit_code(tmp_path):
     assert proc.stderr == ""  # no progress bar when stderr is not a terminal
     data = json.loads(out.read_text())
     assert data["claims"][0]["status"] == "refuted"
+
+
+def test_a_refuted_claim_carries_a_paste_ready_sentence_with_its_counterexample(demo_report):
+    from verifier.render_latex import referee_sentence
+    entry = demo_report.claims[1]
+    cex = entry.sections[0].counterexamples[0]
+    sentence = referee_sentence(entry)
+    assert entry.status == "refuted" and sentence.startswith("At $")
+    from verifier.render_latex import name_latex, number_latex
+    assert all(f"${name_latex(k)} = {number_latex(v)}$" in sentence for k, v in cex.point.items())
+    assert f"achieves ${number_latex(cex.lhs_value)}$" in sentence   # the scheme's exact value
+    assert sentence in render_latex(demo_report) and sentence in render_markdown(demo_report)
+    assert referee_sentence(demo_report.claims[0]) is None   # proved: nothing to object to

@@ -154,12 +154,42 @@ def regime_condition_of(poly) -> str:
     return condition_latex(poly.atoms)
 
 
+SIDE_WORDS = {"inner": "the scheme achieves", "outer": "the converse gives"}
+
+
+def referee_sentence(entry) -> str | None:
+    """One paste-ready LaTeX sentence for a refuted claim, from its first counterexample:
+    'At $\\alpha = 3/2$, $\\gamma = 5/2$ the scheme achieves $3/2$ while the converse gives $2$.'
+    Only for comparisons of two sides (monotone and symmetric claims compare a point with another)."""
+    if entry.status != "refuted":
+        return None
+    for section in entry.sections:
+        if section.status == "refuted" and section.counterexamples and \
+                section.kind in ("relation", "within", "reduces-to"):
+            cex = section.counterexamples[0]
+            at = ", ".join(f"${name_latex(k)} = {number_latex(v)}$" for k, v in cex.point.items())
+            left, right = section.labels[0], section.labels[1]
+            say = [SIDE_WORDS.get(left, f"the left side, {_label_math(left)}, is"),
+                   SIDE_WORDS.get(right, f"the right side, {_label_math(right)}, is")]
+            return (f"At {at} {say[0]} ${number_latex(cex.lhs_value)}$ while {say[1]} "
+                    f"${number_latex(cex.rhs_value)}$.")
+    return None
+
+
+def _label_math(label: str) -> str:
+    return f"\\texttt{{{escape(label)}}}"
+
+
 def claim_latex(entry) -> str:
     """A claim: its verdict, notes, then each part (a claim decided in parts says which is which)."""
     declared = f" (declared {entry.expect})" if entry.expect and entry.expect != entry.status else ""
     parts = [f"\\subsection*{{{escape(entry.name or entry.statement)}}}",
              f"Verdict: \\textbf{{{entry.status}}}{escape(declared)}. Claim: \\texttt{{{escape(entry.statement)}}}\\par"]
     parts += [escape(n) + "\\par" for n in entry.notes]
+    sentence = referee_sentence(entry)
+    if sentence:
+        parts.append(f"% paste-ready: {sentence}")
+        parts.append(f"\\emph{{For the referee report:}} {sentence}\\par")
     for k, section in enumerate(entry.sections, 1):
         if len(entry.sections) > 1 or section.label:
             parts.append(f"\\paragraph{{Part {k} of {len(entry.sections)}}} "

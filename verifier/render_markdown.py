@@ -10,7 +10,7 @@ import html
 
 from .verdicts import tally_sentence
 from .render_text import part_heading, summary_lines, table_rows
-from .report import ClaimEntry, ClaimReport, Report, solver_text
+from .report import ClaimEntry, ClaimReport, Report, count, solver_text
 
 
 def _cell(text: str) -> str:
@@ -25,8 +25,8 @@ def _table(head, rows) -> list[str]:
 
 def section_markdown(section: ClaimReport, heading: str = "") -> list[str]:
     lines = [heading, ""] if heading else []
-    lines += [f"Parameters: {', '.join(section.names)}; {len(section.regimes)} regimes from "
-              f"{section.cells} cells; method: {section.method}."
+    lines += [f"Parameters: {', '.join(section.names)}; {count(len(section.regimes), 'regime')} from "
+              f"{count(section.cells, 'cell')}; method: {section.method}."
               + (f" One-shot check by {section.smt_solver}: {section.smt_status}." if section.smt_solver else ""),
               ""]
     if section.detail:
@@ -43,6 +43,10 @@ def claim_markdown(entry: ClaimEntry) -> list[str]:
     if entry.expect and entry.expect != entry.status:
         lines += [f"> Declared verdict was **{entry.expect}**.", ""]
     lines += [f"- {n}" for n in entry.notes] + ([""] if entry.notes else [])
+    from .render_latex import referee_sentence
+    sentence = referee_sentence(entry)
+    if sentence:
+        lines += ["For the referee report (LaTeX):", "", f"    {sentence}", ""]
     for k, section in enumerate(entry.sections, 1):
         heading = part_heading(entry, k, section).strip()
         lines += section_markdown(section, f"### {heading[0].upper()}{heading[1:]}" if heading else "")

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from .expr import to_text
 from .verdicts import tally_sentence
-from .report import ClaimEntry, ClaimReport, Report, failure_share_text, gap_text, num, point_text, solver_text
+from .report import ClaimEntry, ClaimReport, Report, count, failure_share_text, gap_text, num, point_text, solver_text
 
 
 def verdict_cell(row) -> str:
@@ -53,7 +53,7 @@ def summary_lines(section: ClaimReport) -> list[str]:
         lines.append("Thresholds: " + "; ".join(t.text for t in section.thresholds))
     f = section.failure
     if f is not None and f.pieces:
-        lines.append(f"Fails on {len(f.pieces)} piece(s); {failure_share_text(f)}:")
+        lines.append(f"Fails on {count(len(f.pieces), 'piece')}; {failure_share_text(f)}:")
         lines += [f"  regime {p.regime}: {p.polyhedron.text()} (dimension {p.dim})" for p in f.pieces]
     if section.counterexamples:
         lines.append("Counterexamples (best first):")
@@ -67,8 +67,8 @@ def summary_lines(section: ClaimReport) -> list[str]:
 def section_lines(section: ClaimReport, heading: str = "") -> list[str]:
     """One part's regime table and summaries; `heading` names the part inside its claim."""
     lines = [heading] if heading else []
-    lines += [f"  parameters: {', '.join(section.names)}; {len(section.regimes)} regimes from "
-              f"{section.cells} cells; method {section.method}"
+    lines += [f"  parameters: {', '.join(section.names)}; {count(len(section.regimes), 'regime')} from "
+              f"{count(section.cells, 'cell')}; method {section.method}"
               + (f"; one-shot check by {section.smt_solver}: {section.smt_status}" if section.smt_solver else "")
               + ("; certificates and coverage re-checked by the standalone checker" if section.checked else "")]
     if section.detail:

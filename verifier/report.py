@@ -208,6 +208,11 @@ def constraint_text(atoms: Sequence[Atom]) -> str:
 # small shared text helpers (exact numbers, points) used by the renderers
 # ---------------------------------------------------------------------------------------------
 
+def count(n: int, word: str, plural: str | None = None) -> str:
+    """'1 regime', '2 regimes': numbers with the right form of the noun."""
+    return f"{n} {word if n == 1 else (plural or word + 's')}"
+
+
 def num(q) -> str:
     """An exact number as '3/4' (never a float)."""
     return format_number(Fraction(q))

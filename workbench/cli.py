@@ -65,11 +65,20 @@ def one_line(message) -> str:
     return "".join(ch if ch.isprintable() else repr(ch)[1:-1] for ch in str(message))
 
 
+def _version() -> str:
+    from importlib.metadata import PackageNotFoundError, version
+    try:
+        return version("gdof-workbench")
+    except PackageNotFoundError:
+        return "(not installed)"
+
+
 def build_parser(argv=None) -> argparse.ArgumentParser:
     """The parser; only the subcommand named in `argv` (every one when argv is None) is imported
     and configured, so that a command loads only what it needs."""
     parser = _Parser(prog="gdof", description="Prove or refute GDoF claims region by region, exactly.")
     parser.add_argument("--debug", action="store_true", help="show tracebacks of internal errors")
+    parser.add_argument("--version", action="version", version=f"gdof {_version()}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     from . import commands
     wanted = None if argv is None else next((a for a in argv if not a.startswith("-")), "")

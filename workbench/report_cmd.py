@@ -30,6 +30,8 @@ RENDERERS = {"text": render_text, "markdown": render_markdown, "latex": render_l
 def configure(p) -> None:
     p.add_argument("case", help="a case file (TOML)")
     p.add_argument("--format", choices=tuple(RENDERERS), default="text", help="output format (default text)")
+    p.add_argument("--json", action="store_const", const="json", dest="format",
+                   help="the same as --format json (exact numbers as strings)")
     p.add_argument("--claim", action="append", default=[], metavar="NAME",
                    help="report only the named claim (repeatable)")
     p.add_argument("--workers", type=int, default=1, help="processes for the region-wise prover (default 1)")
