@@ -33,6 +33,16 @@ Number = Union[int, Fraction]
 _PLAIN_NUMBER = re.compile(r"[-+]?(\d+(\.\d*)?|\.\d+)(\s*/\s*\d+)?")
 
 
+def common_denominator(numbers) -> int:
+    """The least common multiple of the numbers' denominators (integer scaling of exact rows)."""
+    from math import gcd
+    out = 1
+    for q in numbers:
+        d = Fraction(q).denominator
+        out = out * d // gcd(out, d)
+    return out
+
+
 def as_fraction(value) -> Fraction:
     """Exact rational from int, Fraction, decimal string or float.
 

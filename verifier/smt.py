@@ -13,11 +13,10 @@ from __future__ import annotations
 import time
 from dataclasses import dataclass, field
 from fractions import Fraction
-from math import gcd
 from typing import Mapping, Sequence
 
 from .errors import SolverError
-from .expr import Affine, Expr, Max, Min, Sum, children, params
+from .expr import Affine, Expr, Max, Min, Sum, children, common_denominator, params
 from .region import Region
 
 SOLVERS = ("z3", "cvc5")
@@ -179,14 +178,6 @@ class _Encoder:
         return out
 
 
-def _lcm_of_denominators(numbers) -> int:
-    out = 1
-    for q in numbers:
-        d = Fraction(q).denominator
-        out = out * d // gcd(out, d)
-    return out
-
-
 def _formula(query: Query, enc: _Encoder):
     names = query.variables()
     for n in names:
@@ -204,7 +195,7 @@ def _encoder(query: Query, env) -> _Encoder:
         return _Encoder(env.formula_manager)
     if not (isinstance(query.grid, int) and query.grid >= 1):
         raise SolverError(f"internal: grid must be a positive integer, not {query.grid!r}")
-    return _Encoder(env.formula_manager, query.grid, query.grid * _lcm_of_denominators(query.numbers()))
+    return _Encoder(env.formula_manager, query.grid, query.grid * common_denominator(query.numbers()))
 
 
 def _options(solver: str, timeout: float) -> dict:

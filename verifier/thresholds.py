@@ -18,7 +18,7 @@ from fractions import Fraction
 from math import gcd
 from typing import Mapping, Sequence
 
-from .expr import Affine, Expr, affine, substitute
+from .expr import Affine, Expr, affine, common_denominator, substitute
 from .lp import feasible, substitute_affine
 from .lp_shape import shape
 from .regimes import Cell, decompose, normalise
@@ -39,20 +39,12 @@ def equation_text(form: Affine) -> str:
     return atom_text(form, "==").replace(" == ", " = ")
 
 
-def _lcm_den(values) -> int:
-    out = 1
-    for x in values:
-        d = Fraction(x).denominator
-        out = out * d // gcd(out, d)
-    return out
-
-
 def _integer_vertices(p, names, cache: dict):
     """(L, vertices as integer tuples L * v): once per polytope, so that every plane and pair test
     afterwards is integer arithmetic."""
     got = cache.get(id(p))
     if got is None:
-        scale = _lcm_den(v[n] for v in p.vertices for n in names)
+        scale = common_denominator(v[n] for v in p.vertices for n in names)
         got = (scale, [tuple(int(v[n] * scale) for n in names) for v in p.vertices])
         cache[id(p)] = got
     return got
@@ -63,7 +55,7 @@ def _facet_box(p, h: Affine, names, cache: dict, plane_scale: int):
     `plane_scale`; box None: unbounded polytope, box unknown; box (): no vertex on h, so a bounded
     polytope has no facet there.  Computed once per polytope and hyperplane."""
     scale, verts = _integer_vertices(p, names, cache)
-    m = _lcm_den([c for _, c in h.coeffs] + [h.const])
+    m = common_denominator([c for _, c in h.coeffs] + [h.const])
     w = [int(h.coeff(n) * m) for n in names]
     c = int(h.const * m) * scale
     up = plane_scale // scale
@@ -119,7 +111,7 @@ def _integer_atoms(p, names, cache: dict):
     if key not in cache:
         rows = []
         for atom in p.polyhedron.atoms:
-            m = _lcm_den([c for _, c in atom.form.coeffs] + [atom.form.const])
+            m = common_denominator([c for _, c in atom.form.coeffs] + [atom.form.const])
             coeffs = dict(atom.form.coeffs)
             rows.append(([int(coeffs.get(n, 0) * m) for n in names], int(atom.form.const * m)))
         cache[key] = rows
@@ -190,7 +182,7 @@ def thresholds(regimes: Sequence, names: Sequence[str], budget=None) -> tuple[Th
             k = _integer_vertices(p, names, cache)[0]
             scale = scale * k // gcd(scale, k)
         facets = [_facet_box(p, h, names, cache, scale) for _, p, _ in owners]
-        m = _lcm_den([c for _, c in h.coeffs] + [h.const])
+        m = common_denominator([c for _, c in h.coeffs] + [h.const])
         hv = [int(h.coeff(n) * m) for n in names]
         seps = [_integer_atoms(p, names, cache) if p.bounded and p.dim == len(names) else None
                 for _, p, _ in owners]
