@@ -260,3 +260,14 @@ def test_error_classes_are_value_errors():
     # callers that only know builtins still catch our errors (common practice)
     with pytest.raises(ValueError):
         parse_expr("log(alpha)")
+
+
+def test_scientific_notation_is_refused_by_the_grammar_itself():
+    # '1e-7' once parsed as 1*e - 7 (implicit product) and, with a parameter named e, let a false
+    # claim be proved; the Python API refuses it as case files do
+    import pytest as _pytest
+    from verifier.errors import ParseError as _ParseError
+    for text in ("1e-7", "2E5", "3e+2 + alpha"):
+        with _pytest.raises(_ParseError, match="scientific notation"):
+            parse_expr(text, ["e", "alpha"])
+    assert parse_expr("2e", ["e"]) == parse_expr("2*e", ["e"])   # a product stays a product

@@ -21,6 +21,8 @@ Token kinds:
 
 from __future__ import annotations
 
+import re
+
 from dataclasses import dataclass
 from fractions import Fraction
 
@@ -156,4 +158,35 @@ def tokenize(source: str) -> list[Token]:
             tokens.append(Token("bad", ch, i, i + 1))
             i += 1
     tokens.append(Token("end", None, n, n))
+    _refuse_scientific(source, tokens)
     return tokens
+
+
+_EXPONENT_LIKE = re.compile(r"[eE][0-9]*")
+
+
+def _scientific_end(tok: Token, rest) -> int | None:
+    """End of `e5` after `1`, or of `e-7` after `1` (a glued sign and digits); else None."""
+    if not _EXPONENT_LIKE.fullmatch(tok.value):
+        return None
+    if tok.value[1:]:
+        return tok.end
+    sign, digits = rest[0], rest[1] if len(rest) > 1 else None
+    if (sign.kind == "op" and sign.value in "+-" and sign.pos == tok.end and digits is not None
+            and digits.kind == "num" and digits.pos == sign.end):
+        return digits.end
+    return None
+
+
+def _refuse_scientific(source: str, tokens) -> None:
+    """Refuse `1e-7`: the grammar reads juxtaposition as a product, so it would silently mean
+    1*e - 7 when a parameter is called e (a false claim was once proved that way)."""
+    for k in range(1, len(tokens)):
+        tok, before = tokens[k], tokens[k - 1]
+        if tok.kind != "name" or before.kind != "num" or before.end != tok.pos:
+            continue
+        end = _scientific_end(tok, tokens[k + 1:])
+        if end is not None:
+            raise ParseError(f"'{source[before.pos:end]}' is scientific notation, which expressions do "
+                             "not read: write it as a fraction (in a case file also unquoted, as a TOML "
+                             "number); for a product write 2*e", source, before.pos)

@@ -33,7 +33,7 @@ from verifier.region import Region
 from . import verdict_text as vt
 from .casebook_cmd import CaseRun, run_case
 from .casefile import VERDICTS
-from .statements import Part, check_notation, did_you_mean, explained, listing, parse_sentence, shifted
+from .statements import Part, did_you_mean, explained, listing, parse_sentence, shifted
 
 
 def assert_claim(statement_or_claim, region=None, names: Iterable[str] | None = None, *,
@@ -151,7 +151,6 @@ def claim_from_text(text: str, region=None, names: Iterable[str] | None = None, 
 
     def side(part: Part) -> C.Side:
         try:
-            check_notation(part.text)
             expr = parse_expr(part.text, known)
         except InputError as err:
             raise shifted(explained(err, unknown), part, text) from None
@@ -224,7 +223,6 @@ def _definitions(definitions: Mapping[str, object], names, undeclared: bool = Fa
             out[key] = value
             continue
         try:
-            check_notation(str(value))
             out[key] = parse_expr(str(value), known)
         except InputError as err:
             err = explained(err, _unknown(known, undeclared)) if known is not None else err

@@ -46,7 +46,7 @@ from verifier.region import Region
 
 from .expansion import expand
 from .output_target import shown_path
-from .statements import Part, check_notation, did_you_mean, explained, listing, parse_sentence, shifted
+from .statements import Part, did_you_mean, explained, listing, parse_sentence, shifted
 
 RESERVED = {"inner", "outer"}
 CLAIM_KEYS = {"name", "statement", "where", "expect"}
@@ -244,7 +244,6 @@ class _Reader:
         try:
             if "\\" in value:  # pasted from a manuscript: the LaTeX subset
                 return parse_latex_expr(value, names)
-            check_notation(value)
             return parse_expr(value, names)
         except InputError as err:
             raise self.fail(key, explained(err, explain) if explain else err, value) from None
@@ -255,7 +254,6 @@ class _Reader:
         try:
             if "\\" in value:
                 return parse_latex_region(value, names)
-            check_notation(value)
             return parse_region(value, names)
         except InputError as err:
             raise self.fail(key, explained(err, explain) if explain else err, value) from None
@@ -403,7 +401,6 @@ def _pieces(rd: _Reader, key: str, value, case: Case) -> list[Piece]:
     explain = _explain_bound(case)
     if isinstance(value, str):
         try:
-            check_notation(value)
             return [Piece(e, r) for e, r in parse_piecewise(value, names).pieces]
         except InputError as err:
             raise rd.fail(key, explained(err, explain), value) from None
@@ -508,7 +505,6 @@ def _explain_claim_name(name: str, case: Case) -> str:
 def _side(rd: _Reader, part: Part, full: str, key: str, case: Case) -> C.Side:
     named = case.named()
     try:
-        check_notation(part.text)
         expr = parse_expr(part.text, list(case.parameters) + list(named))
     except InputError as err:
         err = explained(err, lambda name: _explain_claim_name(name, case))

@@ -167,41 +167,6 @@ def shifted(err: InputError, part: Part, full: str) -> InputError:
 # checks of a text beyond the grammar, and errors that say what a misspelt name might be
 # ---------------------------------------------------------------------------------------------
 
-_EXPONENT_LIKE = re.compile(r"[eE][0-9]*")
-
-
-def _scientific(tok, rest) -> int | None:
-    """End of `e5` after `1`, or of `e-7` after `1` (a glued sign and digits); else None."""
-    if not _EXPONENT_LIKE.fullmatch(tok.value):
-        return None
-    if tok.value[1:]:
-        return tok.end
-    sign, digits = rest[0], rest[1] if len(rest) > 1 else None
-    if (sign.kind == "op" and sign.value in "+-" and sign.pos == tok.end and digits is not None
-            and digits.kind == "num" and digits.pos == sign.end):
-        return digits.end
-    return None
-
-
-def check_notation(text: str) -> None:
-    """Refuse `1e-7` in a text: the grammar reads juxtaposition as a product, so it would silently
-    mean 1*e - 7 when a parameter is called e.  Text that does not tokenize is left to the parser."""
-    from verifier.lexer import tokenize
-    try:
-        tokens = tokenize(text)
-    except InputError:
-        return
-    for k, tok in enumerate(tokens[1:], 1):
-        before = tokens[k - 1]
-        if tok.kind != "name" or before.kind != "num" or before.end != tok.pos:
-            continue
-        end = _scientific(tok, tokens[k + 1:])
-        if end is not None:
-            raise ParseError(f"'{text[before.pos:end]}' is scientific notation, which expressions do not "
-                             "read: write it as a fraction, or unquoted in TOML (for a product write 2*e)",
-                             text, before.pos)
-
-
 def explained(err: InputError, explain) -> InputError:
     """The parser's "unknown parameter 'x'" error, reworded by explain(x) at the same position."""
     m = re.match(r"unknown parameter '([^']*)'", err.message) if isinstance(err, UnknownNameError) else None
