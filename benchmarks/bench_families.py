@@ -8,7 +8,7 @@ Run on demand (pytest does not collect it):
 
 Each claim runs in a fresh subprocess, so the peak memory (maximum resident set size) belongs to that
 claim alone, and times are CPU seconds of that process (the machine may be shared).  The baseline is
-the one-shot verdict (`verifier.prove.prove`, counterexample search included) on the same claim in
+the one-shot verdict (`verifier.claims.one_shot.prove`, counterexample search included) on the same claim in
 the same subprocess; `ratio` = report / one-shot.  The targets are the ones the project set for
 itself; the table says which are met.  Families are generated deterministically (benchmarks/families.py).
 """
@@ -36,9 +36,9 @@ BUDGET = 900.0
 def one(name: str, workers: int = 1) -> dict:
     """Run one family member in this process and return its figures."""
     from families import FAMILIES
-    from verifier.budget import Budget
-    from verifier.prove import prove
-    from verifier.regime_proof import prove_by_regimes
+    from verifier.core.budget import Budget
+    from verifier.claims.one_shot import prove
+    from verifier.regimes.proof import prove_by_regimes
     prove(FAMILIES["bounds 1x2"]())            # solver bindings loaded before timing
     claim = FAMILIES[name]()
     start = time.process_time()

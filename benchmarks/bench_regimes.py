@@ -7,7 +7,7 @@ For each claim (1 to 6 parameters, 2 to 40 bound terms) we time
 - the full regime report: prove_by_regimes with its defaults (regimes, certificates, thresholds,
   failure set, small witnesses, bound analysis, gaps, one SMT cross-check);
 - the same without the SMT cross-check and witness search (the regime method alone);
-- the one-shot verdict: verifier.prove.prove with z3 (its default witness improvement included);
+- the one-shot verdict: verifier.claims.one_shot.prove with z3 (its default witness improvement included);
 - naive enumeration: every combination of min/max choices over all min/max nodes, one exact
   feasibility LP each (stopped after a time budget; the full time is then extrapolated, marked '~').
 and print medians and ratios, then the parallel speed-up on the largest case.
@@ -24,13 +24,13 @@ from fractions import Fraction as F
 
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), ".."))
 
-from verifier.claims import Side, relation  # noqa: E402
-from verifier.expr import Affine, Min, Sum, extremum_nodes, max_, min_, param, pos  # noqa: E402
-from verifier.lp import combine, feasible  # noqa: E402
-from verifier.prove import prove  # noqa: E402
-from verifier.regime_proof import prove_by_regimes  # noqa: E402
-from verifier.regime_spec import spec_of, targets  # noqa: E402
-from verifier.region import Atom, Region, atoms_of  # noqa: E402
+from verifier.claims.kinds import Side, relation  # noqa: E402
+from verifier.expressions.expr import Affine, Min, Sum, extremum_nodes, max_, min_, param, pos  # noqa: E402
+from verifier.geometry.lp import combine, feasible  # noqa: E402
+from verifier.claims.one_shot import prove  # noqa: E402
+from verifier.regimes.proof import prove_by_regimes  # noqa: E402
+from verifier.regimes.spec import spec_of, targets  # noqa: E402
+from verifier.expressions.region import Atom, Region, atoms_of  # noqa: E402
 
 
 def nonneg(*names, hi=None):

@@ -16,9 +16,9 @@ from __future__ import annotations
 
 from fractions import Fraction as F
 
-from verifier.claims import Side, relation
-from verifier.expr import abs_, add, max_, min_, param, pos, scale
-from verifier.region import Region, atoms_of
+from verifier.claims.kinds import Side, relation
+from verifier.expressions.expr import abs_, add, max_, min_, param, pos, scale
+from verifier.expressions.region import Region, atoms_of
 
 
 class Sequence:

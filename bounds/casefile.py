@@ -10,8 +10,8 @@ from __future__ import annotations
 
 from typing import Iterable, Mapping
 
-from verifier.errors import InputError
-from verifier.expr import Expr
+from verifier.core.errors import InputError
+from verifier.expressions.expr import Expr
 
 from .fragment import named_outer_bounds
 from .network import NETWORK_KEYS, check_keys, from_mapping

@@ -16,9 +16,9 @@ from __future__ import annotations
 from itertools import combinations
 from typing import Iterable
 
-from verifier.errors import InputError
-from verifier.expr import Expr, add, min_
-from verifier.region import count_text
+from verifier.core.errors import InputError
+from verifier.expressions.expr import Expr, add, min_
+from verifier.expressions.region import count_text
 
 from .matching import MAX_MATCHINGS, MatchingLimit, matching_gdof, matching_gdof_counted
 from .network import Message, Network

@@ -24,8 +24,8 @@ from typing import Iterable, Mapping
 
 import flint
 
-from verifier.errors import InputError
-from verifier.expr import evaluate
+from verifier.core.errors import InputError
+from verifier.expressions.expr import evaluate
 
 from .network import Message, Network
 

@@ -13,7 +13,7 @@ from __future__ import annotations
 import re
 from typing import Iterable
 
-from verifier.expr import Expr, to_text
+from verifier.expressions.expr import Expr, to_text
 
 from .cutset import message_cut_bounds, sum_cutset_bounds
 from .network import Network

@@ -10,7 +10,7 @@ bounds.highsnr_terms.  In short: sums and constant multiples of LOG(...) of posi
 powers of SNR, with products, quotients and constants.  LOG is log, ln, log2 or log10 (one base per
 expression, so the GDoF stays exact); SNR is the base name (default "SNR"); an alias stands for a power
 of SNR (aliases={"INR": "alpha"} reads INR as SNR^alpha).  An exponent is a number, a name, or a
-bracketed expression read by verifier.parse.parse_expr.
+bracketed expression read by verifier.text.parse.parse_expr.
 
 Numerics (mpmath) are only an independent check: `slope` is R(SNR) / log(SNR), which tends to the GDoF.
 """
@@ -20,7 +20,7 @@ from __future__ import annotations
 from fractions import Fraction
 from typing import Mapping
 
-from verifier.expr import Expr
+from verifier.expressions.expr import Expr
 
 from .highsnr_parse import LOGS, _Parser
 from .highsnr_terms import Inner, Rate

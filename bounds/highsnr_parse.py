@@ -17,8 +17,8 @@ import re
 from fractions import Fraction
 from typing import Mapping
 
-from verifier.errors import NonlinearError, ParseError
-from verifier.expr import Expr, const, scale
+from verifier.core.errors import NonlinearError, ParseError
+from verifier.expressions.expr import Expr, const, scale
 
 from .highsnr_terms import Inner
 from .network import to_expr
@@ -194,7 +194,7 @@ class _Parser:
             v = self.take()[1]
             depth += (v == opener) - (v == closer)
         body = self.text[start + 1:self.toks[self.i - 1][2]]
-        from verifier.parse import parse_expr
+        from verifier.text.parse import parse_expr
         try:
             return parse_expr(body, self.names)
         except ParseError as err:

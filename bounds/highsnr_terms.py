@@ -15,7 +15,7 @@ from typing import Mapping
 
 import mpmath
 
-from verifier.expr import Expr, add, as_fraction, const, evaluate, max_, scale
+from verifier.expressions.expr import Expr, add, as_fraction, const, evaluate, max_, scale
 
 
 @dataclass(frozen=True)

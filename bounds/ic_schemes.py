@@ -21,8 +21,8 @@ from typing import Mapping, Sequence
 
 import flint
 
-from verifier.errors import InputError
-from verifier.expr import evaluate
+from verifier.core.errors import InputError
+from verifier.expressions.expr import evaluate
 
 from .projection import Inequality
 

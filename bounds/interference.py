@@ -24,7 +24,7 @@ from __future__ import annotations
 from fractions import Fraction
 from typing import Sequence
 
-from verifier.expr import Expr, add, max_, min_, pos, scale
+from verifier.expressions.expr import Expr, add, max_, min_, pos, scale
 
 from .network import Network, interference_channel, to_expr
 from .projection import Inequality, eliminate, le, maximize

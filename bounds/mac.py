@@ -15,8 +15,8 @@ from __future__ import annotations
 from itertools import combinations
 from typing import Sequence
 
-from verifier.errors import InputError
-from verifier.expr import Expr, max_, pos
+from verifier.core.errors import InputError
+from verifier.expressions.expr import Expr, max_, pos
 
 from .network import to_expr
 from .projection import Inequality, le

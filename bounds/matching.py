@@ -18,8 +18,8 @@ from __future__ import annotations
 from fractions import Fraction
 from typing import Sequence
 
-from verifier.errors import InputError
-from verifier.expr import Expr, add, as_fraction, const, lift, max_, pos
+from verifier.core.errors import InputError
+from verifier.expressions.expr import Expr, add, as_fraction, const, lift, max_, pos
 
 Matrix = Sequence[Sequence[object]]  # entries: Expr, number, or None for "no link"
 

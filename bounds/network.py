@@ -15,8 +15,8 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import Iterable, Mapping
 
-from verifier.errors import InputError
-from verifier.expr import Expr, lift, params as expr_params
+from verifier.core.errors import InputError
+from verifier.expressions.expr import Expr, lift, params as expr_params
 
 ROLES = ("transmitter", "receiver", "relay")
 # Largest number of nodes: GDoF networks in papers have a handful, and every cut costs a matrix of
@@ -26,7 +26,7 @@ MAX_NODES = 256
 
 
 def to_expr(value, what: str = "exponent", names: Iterable[str] | None = None) -> Expr:
-    """An Expr from an Expr, an exact number, or text (read by verifier.parse.parse_expr).
+    """An Expr from an Expr, an exact number, or text (read by verifier.text.parse.parse_expr).
 
     `names`, when given, are the only parameter names text may use (as in a case file).
     """
@@ -42,7 +42,7 @@ def to_expr(value, what: str = "exponent", names: Iterable[str] | None = None) -
 
 
 def _text_to_expr(text: str, what: str, names: Iterable[str] | None) -> Expr:
-    from verifier.parse import parse_expr
+    from verifier.text.parse import parse_expr
     try:
         return parse_expr(text, names)
     except InputError as err:

@@ -18,8 +18,8 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import Iterable, Mapping, Sequence
 
-from verifier.errors import InputError
-from verifier.expr import Affine, Expr, Max, Min, Sum, add, as_fraction, lift, min_, scale
+from verifier.core.errors import InputError
+from verifier.expressions.expr import Affine, Expr, Max, Min, Sum, add, as_fraction, lift, min_, scale
 
 _OBJ = "\0objective"
 

@@ -21,9 +21,9 @@ from __future__ import annotations
 from itertools import combinations, permutations
 from typing import Mapping, Sequence
 
-from verifier.errors import InputError
-from verifier.expr import Expr, add, const, evaluate, scale
-from verifier.region import Atom, Region, atoms_of
+from verifier.core.errors import InputError
+from verifier.expressions.expr import Expr, add, const, evaluate, scale
+from verifier.expressions.region import Atom, Region, atoms_of
 
 from .network import to_expr
 from .projection import Inequality, le, max_sum

@@ -16,7 +16,7 @@ settings.load_profile(os.environ.get("GDOF_PROFILE", "quick"))
 
 
 def pytest_collection_modifyitems(config, items):
-    from verifier.smt import is_available
+    from verifier.solvers.smt import is_available
     if not is_available("cvc5"):
         skip = pytest.mark.skip(reason="cvc5 backend not installed")
         for item in items:

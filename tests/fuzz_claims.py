@@ -3,8 +3,8 @@
 Why a separate tiny AST: the test's ground truth must not go through the engine's expression tree,
 its smart constructors (which canonicalise, flatten and merge), its region normalisation or its SMT
 encoding.  So claims are generated here as plain tuples, and from that one description we build
-(1) the engine's claim, through the public constructors of verifier.expr / verifier.region /
-verifier.claims (or, for some claims, through the text parser), and (2) a direct z3 encoding of the
+(1) the engine's claim, through the public constructors of verifier.expressions.expr / verifier.expressions.region /
+verifier.claims.kinds (or, for some claims, through the text parser), and (2) a direct z3 encoding of the
 violation ("is there a point of the region where the claim fails?") written with the z3 Python API,
 plus (3) an exact evaluator over Fractions that re-checks points (the engine's counterexamples and
 z3's own models).  Nothing in (2) or (3) calls the engine.
@@ -385,7 +385,7 @@ def region_text(region) -> str:
 # --- building the engine's claim ---------------------------------------------------------------
 
 def engine_expr(node, sugar=False):
-    from verifier import expr as E
+    from verifier.expressions import expr as E
     tag = node[0]
     if tag == "lin":
         if sugar:
@@ -416,7 +416,7 @@ def engine_expr(node, sugar=False):
 
 
 def engine_region(region, sugar=False):
-    from verifier.region import Polyhedron, Region, atoms_of
+    from verifier.expressions.region import Polyhedron, Region, atoms_of
     pieces = []
     for piece in region:
         atoms = []
@@ -428,9 +428,9 @@ def engine_region(region, sugar=False):
 
 def build_claim(spec: Spec):
     """The engine's claim for `spec`; InputError propagates (the caller decides if it is valid)."""
-    from verifier import claims as C
+    from verifier.claims import kinds as C
     if spec.via_text:
-        from verifier.parse import parse_expr, parse_region
+        from verifier.text.parse import parse_expr, parse_region
         ex = lambda n: parse_expr(node_text(n))
         region = parse_region(region_text(spec.region))
     else:
@@ -491,12 +491,12 @@ def repro_snippet(spec: Spec, call: str = "prove") -> str:
            "r = prove_by_regimes(claim, 'z3', 10); print(r.status, r.counterexamples)")
     return "\n".join([
         "from fractions import Fraction as F",
-        "from verifier.expr import affine, add, scale, min_, max_, pos, abs_",
-        "from verifier.region import Region, Polyhedron, atoms_of",
-        "from verifier.claims import relation, within, monotone, reduces_to, symmetric",
-        "from verifier.parse import parse_expr, parse_region",
-        "from verifier.prove import prove",
-        "from verifier.regime_proof import prove_by_regimes",
+        "from verifier.expressions.expr import affine, add, scale, min_, max_, pos, abs_",
+        "from verifier.expressions.region import Region, Polyhedron, atoms_of",
+        "from verifier.claims.kinds import relation, within, monotone, reduces_to, symmetric",
+        "from verifier.text.parse import parse_expr, parse_region",
+        "from verifier.claims.one_shot import prove",
+        "from verifier.regimes.proof import prove_by_regimes",
         f"region = {region}",
         f"claim = {claim}",
         run,
@@ -1030,7 +1030,7 @@ def run_one(spec: Spec, timeout: float = 10.0, regimes: bool = False, gt_timeout
     rank=False asks the engine for its re-checked solver model instead of the ranked counterexample
     (improve_witness=False): the same verdict for a fraction of the time (the long run uses it for
     most claims, since the lattice search behind the ranking is the slow part)."""
-    from verifier.errors import InputError, RegionError
+    from verifier.core.errors import InputError, RegionError
     out = Outcome(spec)
     truth = ground_truth(spec, gt_timeout)
     out.truth = truth
@@ -1055,11 +1055,11 @@ def run_one(spec: Spec, timeout: float = 10.0, regimes: bool = False, gt_timeout
         out.findings.append("construction crashed:\n" + traceback.format_exc())
         return out
     unknown_ok = timeout < unknown_ok_below
-    from verifier.prove import prove
+    from verifier.claims.one_shot import prove
     extra = {} if rank else {"improve_witness": False}
     runs = [("prove", lambda: prove(claim, solver="z3", timeout=timeout, **extra))]
     if regimes:
-        from verifier.regime_proof import prove_by_regimes
+        from verifier.regimes.proof import prove_by_regimes
         runs.append(("prove_by_regimes", lambda: prove_by_regimes(claim, "z3", timeout, **extra)))
     for who, call in runs:
         start = time.perf_counter()

@@ -3,8 +3,8 @@
 from functools import lru_cache
 from pathlib import Path
 
-from verifier.regime_proof import prove_by_regimes
-from verifier.report import claim_report
+from verifier.regimes.proof import prove_by_regimes
+from verifier.report.build import claim_report
 from workbench.casefile import load_case
 
 ROOT = Path(__file__).resolve().parent.parent

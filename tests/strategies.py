@@ -2,7 +2,7 @@
 
 Why shared: every stage (parser, SMT encoding, regimes, certificates) is tested on the same kind of
 random piecewise-linear trees, so the generators live in one place.  Everything is built through the
-smart constructors of verifier.expr / verifier.region, so generated objects are canonical.
+smart constructors of verifier.expressions.expr / verifier.expressions.region, so generated objects are canonical.
 
     from tests.strategies import exprs, rationals, points
     @given(exprs(names=("alpha", "beta")), points(("alpha", "beta")))
@@ -15,8 +15,8 @@ from typing import Sequence
 
 from hypothesis import strategies as st
 
-from verifier.expr import abs_, add, affine, max_, min_, pos, scale
-from verifier.region import Atom, Region
+from verifier.expressions.expr import abs_, add, affine, max_, min_, pos, scale
+from verifier.expressions.region import Atom, Region
 
 DEFAULT_NAMES = ("alpha", "beta", "gamma")
 

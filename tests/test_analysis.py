@@ -2,10 +2,10 @@
 
 from fractions import Fraction as F
 
-from verifier.claims import Side, relation
-from verifier.expr import affine, max_, min_, param, pos
-from verifier.regime_proof import prove_by_regimes
-from verifier.region import Region, atoms_of
+from verifier.claims.kinds import Side, relation
+from verifier.expressions.expr import affine, max_, min_, param, pos
+from verifier.regimes.proof import prove_by_regimes
+from verifier.expressions.region import Region, atoms_of
 
 a, b = param("alpha"), param("beta")
 # Etkin, Tse, Wang, "Gaussian interference channel capacity to within one bit", IEEE Trans. IT 54(12),

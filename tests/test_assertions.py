@@ -13,11 +13,11 @@ from pathlib import Path
 
 import pytest
 
-from verifier import claims as C
-from verifier.errors import CaseFileError, InputError, RegionError, UnknownNameError
-from verifier.expr import evaluate, min_, param
-from verifier.parse import parse_expr, parse_region
-from verifier.prove import prove
+from verifier.claims import kinds as C
+from verifier.core.errors import CaseFileError, InputError, RegionError, UnknownNameError
+from verifier.expressions.expr import evaluate, min_, param
+from verifier.text.parse import parse_expr, parse_region
+from verifier.claims.one_shot import prove
 from workbench.assertions import assert_case, assert_claim, claim_from_text
 from workbench.notebook import show
 
@@ -107,8 +107,8 @@ def test_every_sentence_kind_is_understood():
 
 
 def test_unknown_is_a_clear_failure(monkeypatch):
-    from verifier.smt import Answer
-    import verifier.prove as P
+    from verifier.solvers.smt import Answer
+    import verifier.claims.one_shot as P
 
     def undecided(query, solver="z3", timeout=30.0):
         if not query.conditions:      # the emptiness check of the region still answers

@@ -9,8 +9,8 @@ from hypothesis import given, settings, strategies as st
 from bounds.cutset import cut_value, cutset_gdof, message_cut_bounds, sum_cut_bounds, sum_cutset_bounds
 from bounds.deterministic import DeterministicNetwork, min_cut_value, shift_matrix
 from bounds.network import Link, Message, Network, interference_channel, relay_channel, to_expr
-from verifier.errors import InputError
-from verifier.expr import evaluate, max_, min_, param
+from verifier.core.errors import InputError
+from verifier.expressions.expr import evaluate, max_, min_, param
 
 
 def _relay_formula():

@@ -10,8 +10,8 @@ from bounds.cutset import message_cut_bounds
 from bounds.fragment import case_fragment, identifier, named_outer_bounds
 from bounds.interference import ic_network
 from bounds.network import Link, Message, Network, relay_channel, to_expr
-from verifier.errors import InputError, UnknownNameError
-from verifier.parse import parse_expr
+from verifier.core.errors import InputError, UnknownNameError
+from verifier.text.parse import parse_expr
 
 RELAY_TABLE = {"nodes": {"S": "transmitter", "R": "relay", "D": "receiver"},
                "links": [["S", "D", "sd"], ["S", "R", "sr"], ["R", "D", "rd"]],

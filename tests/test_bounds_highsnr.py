@@ -8,8 +8,8 @@ from hypothesis import given, settings, strategies as st
 
 from bounds.highsnr import gdof_of, parse_rate
 from bounds.interference import symmetric_bounds
-from verifier.errors import InputError, NonlinearError, ParseError
-from verifier.expr import evaluate, max_, param, pos, scale, to_text
+from verifier.core.errors import InputError, NonlinearError, ParseError
+from verifier.expressions.expr import evaluate, max_, param, pos, scale, to_text
 
 SNRS = [mpmath.mpf(10) ** 20, mpmath.mpf(10) ** 40, mpmath.mpf(10) ** 80]
 

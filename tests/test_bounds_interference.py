@@ -13,7 +13,7 @@ from bounds.ic_schemes import ShiftIC, achieve, vertices_2d
 from bounds.interference import (deterministic_ic_region, from_receiver_first, hk_region, ic_network,
                                  ic_outer_bounds, ic_sum_gdof, symmetric_bounds, symmetric_rate,
                                  symmetric_sum_gdof, w_curve)
-from verifier.expr import evaluate, min_
+from verifier.expressions.expr import evaluate, min_
 
 ALPHA_POINTS = sorted({Fraction(k, d) for d in (1, 2, 3, 4, 5, 6, 7, 12) for k in range(0, 5 * d + 1)})
 

@@ -9,7 +9,7 @@ from hypothesis import given, settings, strategies as st
 from scipy.optimize import linear_sum_assignment
 
 from bounds.matching import matching_gdof, matching_value
-from verifier.expr import affine, const, evaluate, param, to_text
+from verifier.expressions.expr import affine, const, evaluate, param, to_text
 
 
 def _scipy_value(matrix):

@@ -5,8 +5,8 @@ from fractions import Fraction
 import pytest
 
 from bounds.network import Link, Message, Network, from_mapping, interference_channel, relay_channel, to_expr
-from verifier.errors import InputError
-from verifier.expr import const, param
+from verifier.core.errors import InputError
+from verifier.expressions.expr import const, param
 
 
 def _nodes():

@@ -9,8 +9,8 @@ from hypothesis import given, settings, strategies as st
 from scipy.optimize import linprog
 
 from bounds.projection import collect_terms, dominates, eliminate, le, max_sum, maximize, obviously_nonnegative
-from verifier.errors import InputError
-from verifier.expr import add, affine, evaluate, max_, min_, param, pos, to_text
+from verifier.core.errors import InputError
+from verifier.expressions.expr import add, affine, evaluate, max_, min_, param, pos, to_text
 
 NAMES = ("alpha", "beta")
 

@@ -1,4 +1,4 @@
-"""Generated bounds proved equal to the published formulas by the engine (verifier.prove, z3)."""
+"""Generated bounds proved equal to the published formulas by the engine (verifier.claims.one_shot, z3)."""
 
 from fractions import Fraction
 
@@ -9,10 +9,10 @@ from bounds.interference import (hk_region, ic_outer_bounds, ic_sum_gdof, symmet
 from bounds.network import relay_channel
 from bounds.projection import max_sum
 from bounds.tin import tin_condition, tin_sum_gdof
-from verifier.claims import relation
-from verifier.expr import evaluate, max_, min_, param
-from verifier.parse import parse_region
-from verifier.prove import prove
+from verifier.claims.kinds import relation
+from verifier.expressions.expr import evaluate, max_, min_, param
+from verifier.text.parse import parse_region
+from verifier.claims.one_shot import prove
 
 
 def _proved(lhs, rhs, region_text):

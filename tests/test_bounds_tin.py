@@ -9,7 +9,7 @@ from scipy.optimize import linear_sum_assignment, linprog
 from bounds.mac import mac_bound_names, mac_region, mac_sum_gdof
 from bounds.projection import max_sum
 from bounds.tin import condition_atoms, cycles, tin_bounds, tin_condition, tin_condition_holds, tin_sum_gdof
-from verifier.expr import evaluate, max_, param, pos
+from verifier.expressions.expr import evaluate, max_, param, pos
 
 F = Fraction
 

@@ -7,8 +7,8 @@ import subprocess
 import pytest
 
 from report_fixtures import DEMO, DEMO_WRONG, section
-from verifier.errors import InputError
-from verifier.report import build_report
+from verifier.core.errors import InputError
+from verifier.report.build import build_report
 from workbench import bundle_cmd
 from workbench.cli import main
 

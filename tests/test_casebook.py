@@ -16,7 +16,7 @@ from pathlib import Path
 
 import pytest
 
-from verifier.claims import KINDS
+from verifier.claims.kinds import KINDS
 from workbench.casebook_cmd import case_files, run_case
 from workbench.cli import main
 

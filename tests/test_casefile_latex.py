@@ -4,8 +4,8 @@ import tomllib
 
 import pytest
 
-from verifier.errors import CaseFileError
-from verifier.parse import parse_expr
+from verifier.core.errors import CaseFileError
+from verifier.text.parse import parse_expr
 from workbench.casefile import build_case
 
 CASE = r'''

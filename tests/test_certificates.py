@@ -7,13 +7,13 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from verifier.cell_proof import Bound, Piece
-from verifier.certificates import check_certificate
-from verifier.claims import relation, within
-from verifier.expr import max_, min_, param, pos
-from verifier.lp_farkas import Farkas
-from verifier.regime_proof import prove_by_regimes
-from verifier.region import Atom, Region, atoms_of
+from verifier.regimes.cell_proof import Bound, Piece
+from verifier.regimes.certificates import check_certificate
+from verifier.claims.kinds import relation, within
+from verifier.expressions.expr import max_, min_, param, pos
+from verifier.geometry.farkas import Farkas
+from verifier.regimes.proof import prove_by_regimes
+from verifier.expressions.region import Atom, Region, atoms_of
 from tests.strategies import exprs
 
 a, b = param("alpha"), param("beta")

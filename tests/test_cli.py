@@ -57,14 +57,14 @@ def test_refuted_exits_1_with_exact_counterexample(tmp_path, capsys):
 
 
 def test_unknown_exits_3(tmp_path, capsys, monkeypatch):
-    from verifier import smt
+    from verifier.solvers import smt
     real = smt.check
 
     def fake(query, solver="z3", timeout=30.0):
         if query.conditions:
             return smt.Answer("unknown", solver, detail="timeout")
         return real(query, solver, timeout)
-    monkeypatch.setattr("verifier.prove.check", fake)
+    monkeypatch.setattr("verifier.claims.one_shot.check", fake)
     code, out, _ = run(capsys, "check", write(tmp_path, GOOD.format(extra="")))
     assert code == 3 and " -- unknown" in out
 

@@ -2,11 +2,11 @@
 
 import tomllib
 
-from verifier.claims import relation
-from verifier.expr import max_, min_, param
-from verifier.parse import parse_expr
-from verifier.prove import prove
-from verifier.region import Region, atoms_of
+from verifier.claims.kinds import relation
+from verifier.expressions.expr import max_, min_, param
+from verifier.text.parse import parse_expr
+from verifier.claims.one_shot import prove
+from verifier.expressions.region import Region, atoms_of
 from workbench.cli import main
 
 NET = "examples/two_hop_relay.toml"

@@ -9,10 +9,10 @@ from fractions import Fraction as F
 from hypothesis import assume, given, settings
 from hypothesis import strategies as st
 
-from verifier.claims import relation, violated_at, within
-from verifier.expr import evaluate, param
-from verifier.prove import prove
-from verifier.region import Region, atoms_of
+from verifier.claims.kinds import relation, violated_at, within
+from verifier.expressions.expr import evaluate, param
+from verifier.claims.one_shot import prove
+from verifier.expressions.region import Region, atoms_of
 from tests.strategies import exprs, points
 
 NAMES = ("alpha", "beta")

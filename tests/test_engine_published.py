@@ -4,10 +4,10 @@ from fractions import Fraction as F
 
 import pytest
 
-from verifier.claims import monotone, reduces_to, relation, symmetric, within
-from verifier.expr import evaluate, max_, min_, param, pos
-from verifier.prove import prove
-from verifier.region import Region, atoms_of
+from verifier.claims.kinds import monotone, reduces_to, relation, symmetric, within
+from verifier.expressions.expr import evaluate, max_, min_, param, pos
+from verifier.claims.one_shot import prove
+from verifier.expressions.region import Region, atoms_of
 
 a = param("alpha")
 # Etkin, Tse, Wang, "Gaussian interference channel capacity to within one bit", IEEE Trans. IT 54(12),

@@ -4,13 +4,13 @@ from fractions import Fraction as F
 
 import pytest
 
-from verifier import smt
-from verifier.claims import relation, violated_at, violation_query
-from verifier.errors import RegionError
-from verifier.expr import max_, min_, param
-from verifier.prove import PROVED, REFUTED, UNKNOWN, prove
-from verifier.verdicts import backends
-from verifier.region import Region, atoms_of
+from verifier.solvers import smt
+from verifier.claims.kinds import relation, violated_at, violation_query
+from verifier.core.errors import RegionError
+from verifier.expressions.expr import max_, min_, param
+from verifier.claims.one_shot import PROVED, REFUTED, UNKNOWN, prove
+from verifier.core.verdicts import backends
+from verifier.expressions.region import Region, atoms_of
 
 a, b = param("alpha"), param("beta")
 QUADRANT = Region.of(*atoms_of(a, ">=", 0), *atoms_of(b, ">=", 0))
@@ -67,7 +67,7 @@ def test_disagreement_with_a_point_that_rechecks_is_a_loud_refutation():
 
 def test_model_failing_exact_recheck_becomes_unknown(monkeypatch):
     # A lying backend: claims 'sat' with a point that does not violate. Must not become a refutation.
-    monkeypatch.setattr("verifier.prove.check",
+    monkeypatch.setattr("verifier.claims.one_shot.check",
                         lambda q, s, t: smt.Answer("sat", s, {"alpha": F(1, 2)})
                         if q.conditions else smt.Answer("sat", s, {"alpha": F(0)}))
     v = prove(relation(a, "<=", 1, Region.of(*atoms_of(a, ">=", 0))))

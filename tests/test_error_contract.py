@@ -9,8 +9,8 @@ from fractions import Fraction
 
 import pytest
 
-from verifier.errors import InputError, UnknownNameError
-from verifier.expr import const
+from verifier.core.errors import InputError, UnknownNameError
+from verifier.expressions.expr import const
 from workbench import bundle_cmd, report_cmd
 from workbench.assertions import assert_claim
 from workbench.casefile import load_case

@@ -5,10 +5,10 @@ from fractions import Fraction as F
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from verifier.claims import relation, violated_at
-from verifier.expr import abs_, evaluate, max_, min_, param
-from verifier.regime_proof import prove_by_regimes
-from verifier.region import Region, atoms_of
+from verifier.claims.kinds import relation, violated_at
+from verifier.expressions.expr import abs_, evaluate, max_, min_, param
+from verifier.regimes.proof import prove_by_regimes
+from verifier.expressions.region import Region, atoms_of
 from tests.strategies import exprs, points
 
 a, b, c = param("alpha"), param("beta"), param("gamma")

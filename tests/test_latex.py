@@ -7,14 +7,14 @@ import pytest
 from hypothesis import given, settings
 
 from tests.strategies import exprs, regions
-from verifier.errors import NonlinearError, ParseError, UnknownNameError
-from verifier.expr import param
-from verifier.latex_in import (parse_latex_expr, parse_latex_piecewise, parse_latex_region,
+from verifier.core.errors import NonlinearError, ParseError, UnknownNameError
+from verifier.expressions.expr import param
+from verifier.text.latex_in import (parse_latex_expr, parse_latex_piecewise, parse_latex_region,
                                parse_latex_relation)
-from verifier.latex_out import (atom_to_latex, expr_to_latex, name_to_latex, piecewise_to_latex,
+from verifier.text.latex_out import (atom_to_latex, expr_to_latex, name_to_latex, piecewise_to_latex,
                                 region_to_latex)
-from verifier.parse import parse_expr, parse_piecewise, parse_region
-from verifier.region import Atom, Region
+from verifier.text.parse import parse_expr, parse_piecewise, parse_region
+from verifier.expressions.region import Atom, Region
 
 NAMES = ("alpha", "beta", "gamma")
 
@@ -87,7 +87,8 @@ def test_expr_to_latex_style():
     assert expr_to_latex(e) == r"\min\{2\alpha, \frac{\gamma}{2} + (1 - \alpha)^+\}"
     assert expr_to_latex(parse_expr("3*alpha_1/2 - 1/3")) == r"\frac{3\alpha_{1}}{2} - \frac{1}{3}"
     assert name_to_latex("n_sd") == "n_{sd}" and name_to_latex("snr") == r"\mathrm{snr}"
-    assert e._repr_latex_() == "$" + expr_to_latex(e) + "$"
+    from workbench.notebook import show
+    assert show(e)._repr_latex_() == "$" + expr_to_latex(e) + "$"
 
 
 def test_region_and_atom_latex():

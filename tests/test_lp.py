@@ -14,13 +14,13 @@ from hypothesis import strategies as st
 from scipy.optimize import linprog
 from scipy.spatial import ConvexHull
 
-from verifier.expr import affine, param
-from verifier.lp import feasible, minimize
-from verifier.lp_farkas import check_farkas, farkas
-from verifier.lp_shape import difference, irredundant, nice_point, shape, simplest_between
-from verifier.lp_vertices import generators
-from verifier.lp_volume import volume
-from verifier.region import Atom, Polyhedron, atoms_of
+from verifier.expressions.expr import affine, param
+from verifier.geometry.lp import feasible, minimize
+from verifier.geometry.farkas import check_farkas, farkas
+from verifier.geometry.shape import difference, irredundant, nice_point, shape, simplest_between
+from verifier.geometry.vertices import generators
+from verifier.geometry.volume import volume
+from verifier.expressions.region import Atom, Polyhedron, atoms_of
 
 NAMES = ("a", "b", "c")
 small = st.fractions(-4, 4, max_denominator=3)
@@ -73,7 +73,7 @@ def _linear(form, names):
 def _descent_ray(form, atoms, names):
     """An exact d with a_i.d >= 0 for every atom and form.d < 0, or None when there is none.
 
-    Brute force, independent of verifier.lp: if such a d exists, min form.d over the cone cut by the
+    Brute force, independent of verifier.geometry.lp: if such a d exists, min form.d over the cone cut by the
     box -1 <= d_k <= 1 is negative and attained at a vertex, the unique solution of n independent tight
     planes among a_i.d = 0 and d_k = +-1; so every choice of n planes is solved and checked."""
     n = len(names)
@@ -92,7 +92,7 @@ def _descent_ray(form, atoms, names):
 def _farkas_infeasibility(atoms, names):
     """Exact y >= 0 with sum y_i a_i == 0 (linear parts) and sum y_i b_i == -1 (Farkas' lemma: the
     closure is then empty), or None.  Brute force over basic solutions (supports of independent
-    columns), independent of verifier.lp."""
+    columns), independent of verifier.geometry.lp."""
     cols = [_linear(a.form, names) + [F(a.form.const)] for a in atoms]
     rhs = [F(0)] * len(names) + [F(-1)]
     for size in range(1, min(len(cols), len(rhs)) + 1):

@@ -7,11 +7,11 @@ import sympy
 from hypothesis import given, settings, strategies as st
 
 from tests.strategies import exprs, points, regions
-from verifier.errors import InputError, NonlinearError, ParseError, RegionError, UnknownNameError
-from verifier.expr import abs_, add, const, evaluate, max_, min_, param, pos, scale, to_text
-from verifier.parse import Piecewise, parse_expr, parse_piecewise, parse_region, parse_relation
-from verifier.region import Region, atoms_of
-from verifier.sympy_bridge import to_sympy
+from verifier.core.errors import InputError, NonlinearError, ParseError, RegionError, UnknownNameError
+from verifier.expressions.expr import abs_, add, const, evaluate, max_, min_, param, pos, scale, to_text
+from verifier.text.parse import Piecewise, parse_expr, parse_piecewise, parse_region, parse_relation
+from verifier.expressions.region import Region, atoms_of
+from verifier.text.sympy_bridge import to_sympy
 
 A, B, G = param("alpha"), param("beta"), param("gamma")
 NAMES = ("alpha", "beta", "gamma")
@@ -266,7 +266,7 @@ def test_scientific_notation_is_refused_by_the_grammar_itself():
     # '1e-7' once parsed as 1*e - 7 (implicit product) and, with a parameter named e, let a false
     # claim be proved; the Python API refuses it as case files do
     import pytest as _pytest
-    from verifier.errors import ParseError as _ParseError
+    from verifier.core.errors import ParseError as _ParseError
     for text in ("1e-7", "2E5", "3e+2 + alpha"):
         with _pytest.raises(_ParseError, match="scientific notation"):
             parse_expr(text, ["e", "alpha"])

@@ -2,12 +2,12 @@
 
 from fractions import Fraction as F
 
-from verifier.claims import relation
-from verifier.expr import evaluate, max_, min_, param
-from verifier.parse import parse_expr, parse_region
-from verifier.piecewise import Piece, check_piecewise
-from verifier.prove import prove
-from verifier.region import Region, atoms_of
+from verifier.claims.kinds import relation
+from verifier.expressions.expr import evaluate, max_, min_, param
+from verifier.text.parse import parse_expr, parse_region
+from verifier.claims.piecewise import Piece, check_piecewise
+from verifier.claims.one_shot import prove
+from verifier.expressions.region import Region, atoms_of
 from workbench.casefile import build_case
 from workbench.decide import decide
 

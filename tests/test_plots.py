@@ -5,9 +5,9 @@ from fractions import Fraction
 import pytest
 
 from report_fixtures import DEMO, DEMO_WRONG, ETW, W_CLAIM, section
-from verifier.errors import InputError
-from verifier.region import atoms_of
-from verifier.expr import param
+from verifier.core.errors import InputError
+from verifier.expressions.region import atoms_of
+from verifier.expressions.expr import param
 from workbench.plots import box_polygon, regime_map, save_figure, slice_figure
 
 

@@ -7,14 +7,14 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from verifier.claims import Side, monotone, reduces_to, relation, symmetric
-from verifier.errors import RegionError
-from verifier.expr import affine, evaluate, max_, min_, param
-from verifier.prove import prove
-from verifier.regime_proof import prove_by_regimes
-from verifier.regimes import decompose
-from verifier.region import Polyhedron, Region, atoms_of
-from verifier.thresholds import slice_profile
+from verifier.claims.kinds import Side, monotone, reduces_to, relation, symmetric
+from verifier.core.errors import RegionError
+from verifier.expressions.expr import affine, evaluate, max_, min_, param
+from verifier.claims.one_shot import prove
+from verifier.regimes.proof import prove_by_regimes
+from verifier.regimes.decompose import decompose
+from verifier.expressions.region import Polyhedron, Region, atoms_of
+from verifier.regimes.thresholds import slice_profile
 from tests.strategies import exprs, points
 
 a, b, g = param("alpha"), param("beta"), param("gamma")
@@ -39,7 +39,7 @@ def test_w_curve_has_five_regimes_with_published_breakpoints_and_slopes():
 
 
 def test_boundary_points_belong_to_the_regime_on_their_right():
-    # Documented convention (verifier.regimes): a cut h = 0 goes to the side h >= 0.
+    # Documented convention (verifier.regimes.decompose): a cut h = 0 goes to the side h >= 0.
     cells = decompose([W], ALPHA_NONNEG, ("alpha",))
     for x, form in [(F(1, 2), a), (F(2, 3), 1 - a / 2), (F(1), a / 2), (F(2), affine({}, 1))]:
         owners = [c for c in cells if Polyhedron(c.atoms).contains({"alpha": x})]
@@ -203,8 +203,8 @@ def test_empty_region_is_an_input_error():
 
 def _thresholds_by_lp_only(regimes, names):
     """Reference: every candidate pair decided by the exact adjacency LP alone (no quick tests)."""
-    from verifier.regimes import normalise
-    from verifier.thresholds import _adjacent
+    from verifier.regimes.decompose import normalise
+    from verifier.regimes.thresholds import _adjacent
     planes = {}
     for r, regime in enumerate(regimes):
         for p in regime.polytopes:
@@ -225,7 +225,7 @@ def _thresholds_by_lp_only(regimes, names):
 @given(exprs(names=("alpha", "beta"), max_leaves=6), exprs(names=("alpha", "beta"), max_leaves=6))
 def test_threshold_quick_tests_never_change_the_thresholds(lhs, rhs):
     # the box, shared-vertex and separating-constraint shortcuts must agree with the plain LP test
-    from verifier.thresholds import thresholds
+    from verifier.regimes.thresholds import thresholds
     region = Region.of(*atoms_of(a, ">=", -2), *atoms_of(a, "<=", 2), *atoms_of(b, ">=", -2),
                        *atoms_of(b, "<=", 2))
     rp = prove_by_regimes(relation(lhs, "<=", rhs, region), smt="none", improve_witness=False)
@@ -234,7 +234,7 @@ def test_threshold_quick_tests_never_change_the_thresholds(lhs, rhs):
 
 
 def test_threshold_quick_tests_on_a_chain_of_six():
-    from verifier.thresholds import thresholds
+    from verifier.regimes.thresholds import thresholds
     xs = [param(f"x{i}") for i in range(1, 5)]
     f = max_(xs[0] - xs[1], xs[1] - xs[0]) + max_(xs[1] - xs[2], xs[2] - xs[1]) + max_(xs[2] - xs[3], xs[3] - xs[2])
     region = Region.of(*(x for v in xs for x in atoms_of(v, ">=", 0) + atoms_of(v, "<=", 1)))

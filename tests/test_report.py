@@ -8,13 +8,13 @@ from fractions import Fraction
 import pytest
 
 from report_fixtures import DEMO, DEMO_WRONG, ETW, W_CLAIM, section
-from verifier.region import Atom, atoms_of
-from verifier.expr import param
-from verifier.render_json import fraction, render_json
-from verifier.render_latex import render_latex
-from verifier.render_markdown import render_markdown
-from verifier.render_text import render_text
-from verifier.report import CAUTION, build_report, constraint_text
+from verifier.expressions.region import Atom, atoms_of
+from verifier.expressions.expr import param
+from verifier.report.json_out import fraction, render_json
+from verifier.report.latex import render_latex
+from verifier.report.markdown import render_markdown
+from verifier.report.text import render_text
+from verifier.report.build import CAUTION, build_report, constraint_text
 
 RENDERERS = (render_text, render_markdown, render_latex, render_json)
 
@@ -98,8 +98,9 @@ def test_latex_has_one_cases_environment_per_side(demo_report):
 
 
 def test_notebook_reprs(w_report):
-    assert "| regime |" in w_report._repr_markdown_()
-    assert w_report._repr_html_().count("<tr>") == 6  # header + five regimes
+    from workbench.notebook import show
+    assert "| regime |" in show(w_report)._repr_markdown_()
+    assert show(w_report)._repr_html_().count("<tr>") == 6  # header + five regimes
 
 
 def test_constraint_text_chains_one_parameter_bounds():
@@ -124,12 +125,12 @@ def test_cli_report_json_and_exit_code(tmp_path):
 
 
 def test_a_refuted_claim_carries_a_paste_ready_sentence_with_its_counterexample(demo_report):
-    from verifier.render_latex import referee_sentence
+    from verifier.report.latex import referee_sentence
     entry = demo_report.claims[1]
     cex = entry.sections[0].counterexamples[0]
     sentence = referee_sentence(entry)
     assert entry.status == "refuted" and sentence.startswith("At $")
-    from verifier.render_latex import name_latex, number_latex
+    from verifier.report.latex import name_latex, number_latex
     assert all(f"${name_latex(k)} = {number_latex(v)}$" in sentence for k, v in cex.point.items())
     assert f"achieves ${number_latex(cex.lhs_value)}$" in sentence   # the scheme's exact value
     assert sentence in render_latex(demo_report) and sentence in render_markdown(demo_report)

@@ -1,5 +1,5 @@
 """Inputs whose naive handling is exponential end quickly: exact pruning keeps realistic ones small, and
-the rest get one clear InputError naming the size and the limit (verifier.region, verifier.parse,
+the rest get one clear InputError naming the size and the limit (verifier.expressions.region, verifier.text.parse,
 bounds.cutset, bounds.matching, bounds.network).  No timing here: each test would hang or exhaust
 memory without the limit it exercises."""
 
@@ -16,12 +16,12 @@ from bounds.cutset import TooManyCuts, message_cut_bounds, sum_cutset_bounds
 from bounds.interference import ic_network
 from bounds.matching import MatchingLimit, matching_gdof, maximal_matchings
 from bounds.network import MAX_NODES, Network, from_mapping, relay_channel
-from verifier import parse
-from verifier.errors import InputError, ParseError, RegionError
-from verifier.expr import add, evaluate, min_, param, pos
-from verifier.latex_in import parse_latex_expr, parse_latex_region
-from verifier.parse import parse_expr, parse_piecewise, parse_region
-from verifier.region import MAX_POLYHEDRA, MAX_PRODUCT_PAIRS, Polyhedron, Region, atoms_of
+from verifier.text import parse
+from verifier.core.errors import InputError, ParseError, RegionError
+from verifier.expressions.expr import add, evaluate, min_, param, pos
+from verifier.text.latex_in import parse_latex_expr, parse_latex_region
+from verifier.text.parse import parse_expr, parse_piecewise, parse_region
+from verifier.expressions.region import MAX_POLYHEDRA, MAX_PRODUCT_PAIRS, Polyhedron, Region, atoms_of
 from workbench.cli import main
 
 
@@ -130,7 +130,7 @@ def test_long_conjunctions_after_or_groups_stay_linear_and_are_limited_in_atoms(
 
 
 def test_cached_hashes_and_direction_ids_are_not_pickled():
-    # worker processes (verifier.regime_proof) salt string hashes and number directions differently
+    # worker processes (verifier.regimes.proof) salt string hashes and number directions differently
     region = parse_region("(a < 1 or a > 2), b > 0")
     _ = [p.bounds for p in region.pieces], [hash(a) for p in region.pieces for a in p.atoms]
     copy = pickle.loads(pickle.dumps(region))

@@ -7,10 +7,10 @@ import sympy
 from hypothesis import given, settings, strategies as st
 
 from tests.strategies import exprs, points
-from verifier.errors import InputError, NonlinearError
-from verifier.expr import evaluate
-from verifier.parse import parse_expr
-from verifier.sympy_bridge import from_sympy, to_sympy
+from verifier.core.errors import InputError, NonlinearError
+from verifier.expressions.expr import evaluate
+from verifier.text.parse import parse_expr
+from verifier.text.sympy_bridge import from_sympy, to_sympy
 
 NAMES = ("alpha", "beta", "gamma")
 a, b, g = sympy.symbols("alpha beta gamma", real=True)
@@ -91,11 +91,11 @@ def test_from_sympy_refusals(x, cls, pattern):
 def test_regime_report_as_sympy_piecewise_agrees_with_exact_evaluation():
     # Reference library: sympy evaluates the exported Piecewise; the curve is the symmetric two-user IC
     # curve of Etkin, Tse, Wang, IEEE Trans. IT 54(12), 2008 (from memory).
-    from verifier.claims import relation
-    from verifier.expr import param
-    from verifier.regime_proof import prove_by_regimes
-    from verifier.report import claim_report
-    from verifier.region import Region, atoms_of
+    from verifier.claims.kinds import relation
+    from verifier.expressions.expr import param
+    from verifier.regimes.proof import prove_by_regimes
+    from verifier.report.build import claim_report
+    from verifier.expressions.region import Region, atoms_of
     alpha = param("alpha")
     w = parse_expr("min(1, max(alpha/2, 1 - alpha/2), max(alpha, 1 - alpha))")
     section = claim_report(prove_by_regimes(relation(w, "<=", 1, Region.of(*atoms_of(alpha, ">=", 0)))))

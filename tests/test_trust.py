@@ -9,14 +9,14 @@ from fractions import Fraction as F
 
 import pytest
 
-from verifier import smt
-from verifier.budget import Budget
-from verifier.claims import claim_points, reduces_to, relation, violated_at
-from verifier.expr import max_, min_, param
-from verifier.parse import parse_region
-from verifier.prove import prove
-from verifier.regime_proof import prove_by_regimes
-from verifier.verdicts import PROVED, REFUTED, UNKNOWN, Obligation, all_of, methods, overall
+from verifier.solvers import smt
+from verifier.core.budget import Budget
+from verifier.claims.kinds import claim_points, reduces_to, relation, violated_at
+from verifier.expressions.expr import max_, min_, param
+from verifier.text.parse import parse_region
+from verifier.claims.one_shot import prove
+from verifier.regimes.proof import prove_by_regimes
+from verifier.core.verdicts import PROVED, REFUTED, UNKNOWN, Obligation, all_of, methods, overall
 from workbench.cli import main
 
 a, b = param("alpha"), param("beta")
@@ -53,7 +53,7 @@ def coverage_times_out(monkeypatch):
             return smt.Answer("unknown", solver, detail="simulated timeout")
         return real(query, solver, timeout)
     monkeypatch.setattr("workbench.decide.check", fake)
-    monkeypatch.setattr("verifier.smt.check", fake)
+    monkeypatch.setattr("verifier.solvers.smt.check", fake)
 
 
 # --- defect 1: coverage dropped -------------------------------------------------------------------
@@ -154,7 +154,7 @@ def test_min_max_form_undecided_makes_the_claim_unknown(tmp_path, capsys, monkey
         if any(rel == "!=" for _, rel, _ in query.conditions):
             return smt.Answer("unknown", solver, detail="simulated timeout")
         return real(query, solver, timeout)
-    monkeypatch.setattr("verifier.piecewise.check", fake)
+    monkeypatch.setattr("verifier.claims.piecewise.check", fake)
     assert main(["check", write(tmp_path, MONOTONE)]) == 3
     out = capsys.readouterr().out
     assert "could not confirm" in out
@@ -234,8 +234,8 @@ def test_a_wrong_certificate_from_the_engine_is_caught_and_never_proves(monkeypa
     # Simulate an engine defect: every cell certificate gets a wrong Farkas constant.  The region-wise
     # method must then say unknown (loudly), whichever checker looks at it.
     from dataclasses import replace
-    import verifier.regime_work as work
-    from verifier.lp_farkas import Farkas
+    import verifier.regimes.work as work
+    from verifier.geometry.farkas import Farkas
     real = work.certify
 
     def broken(*args, **kw):

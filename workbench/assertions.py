@@ -23,12 +23,12 @@ from __future__ import annotations
 from pathlib import Path
 from typing import Iterable, Mapping
 
-from verifier import claims as C
-from verifier.errors import CaseFileError, InputError, UnknownNameError
-from verifier.expr import Expr, params, substitute
-from verifier.parse import parse_expr, parse_region
-from verifier.prove import Verdict, prove
-from verifier.region import Region
+from verifier.claims import kinds as C
+from verifier.core.errors import CaseFileError, InputError, UnknownNameError
+from verifier.expressions.expr import Expr, params, substitute
+from verifier.text.parse import parse_expr, parse_region
+from verifier.claims.one_shot import Verdict, prove
+from verifier.expressions.region import Region
 
 from . import verdict_text as vt
 from .casebook_cmd import CaseRun, run_case
@@ -42,7 +42,7 @@ def assert_claim(statement_or_claim, region=None, names: Iterable[str] | None = 
                  cross_check: bool = False) -> Verdict:
     """Decide a claim and fail (AssertionError) unless its verdict is `expect`; returns the Verdict.
 
-    `statement_or_claim`: a verifier.claims.Claim, or a claim sentence.  For a sentence, `region`
+    `statement_or_claim`: a verifier.claims.kinds.Claim, or a claim sentence.  For a sentence, `region`
     (a Region or text) and `where` (text) both restrict the claim; `names` lists the parameters (default:
     those of the region, `where` and `definitions`; any other name is an error, never a new variable);
     `definitions` maps names to expressions (text or Expr) that the sentence may use, like the
@@ -126,7 +126,7 @@ def _as_claim(item, region, names, where, definitions) -> C.Claim:
                              "definitions only with a claim sentence")
         return item
     if not isinstance(item, str):
-        raise InputError(f"expected a claim sentence or a verifier.claims.Claim, not {type(item).__name__}")
+        raise InputError(f"expected a claim sentence or a verifier.claims.kinds.Claim, not {type(item).__name__}")
     return claim_from_text(item, region, names, where, definitions)
 
 

@@ -23,15 +23,15 @@ import shutil
 import tempfile
 from pathlib import Path
 
-from verifier.errors import InputError
-from verifier.render_json import counterexample_json, render_json
-from verifier.render_latex import latex_document, render_latex
-from verifier.render_markdown import render_markdown
-from verifier.report import Report
+from verifier.core.errors import InputError
+from verifier.report.json_out import counterexample_json, render_json
+from verifier.report.latex import latex_document, render_latex
+from verifier.report.markdown import render_markdown
+from verifier.report.build import Report
 
 from .casefile import load_case
 from .output_target import shown_path
-from verifier.verdicts import tally_sentence
+from verifier.core.verdicts import tally_sentence
 from .check_cmd import select
 from .exit_codes import exit_code
 from .plots import regime_map, save_figure, slice_figure

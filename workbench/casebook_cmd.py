@@ -18,7 +18,7 @@ import time
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from verifier.errors import CaseFileError, GdofError, InputError
+from verifier.core.errors import CaseFileError, GdofError, InputError
 
 from . import verdict_text as vt
 from .casefile import load_case
@@ -69,7 +69,7 @@ def case_files(paths) -> list[Path]:
 def run_case(path, solver: str = "z3", timeout: float = 30.0, cross_check: bool = False,
              budget: float | None = None) -> CaseRun:
     """Load one case file and decide every claim; bad input is recorded, never raised.
-    `budget`: seconds per claim over all stages (verifier.budget)."""
+    `budget`: seconds per claim over all stages (verifier.core.budget)."""
     run = CaseRun(str(path))
     start = time.perf_counter()
     try:

@@ -13,7 +13,7 @@ A case file is TOML in a layout of our own:
 A bound may be given regime by regime, as `hk = "1 - alpha if alpha <= 1/2; alpha if alpha > 1/2"` or
 `hk = { regimes = [["1 - alpha", "alpha <= 1/2"], ...] }`.  Such a name stays a placeholder until a
 claim is built: when the regimes form one continuous function it is replaced by its verified min/max
-form (verifier.piecewise); otherwise the claim is split into one sub-claim per regime.  Either way each
+form (verifier.claims.piecewise); otherwise the claim is split into one sub-claim per regime.  Either way each
 claim checks that the regimes cover its region (workbench.expansion).
 
 Every error names the file, the key and the position (file line and column when the value can be
@@ -33,16 +33,16 @@ from dataclasses import dataclass, field
 from fractions import Fraction
 from pathlib import Path
 
-from verifier import claims as C
-from verifier.errors import CaseFileError, InputError
-from verifier.expr import Expr, const, max_, min_, param, params, substitute
-from verifier.latex_in import parse_latex_expr, parse_latex_region
-from verifier.lexer import KEYWORDS, MAX_LITERAL_DIGITS
-from verifier.lp import feasible
-from verifier.parse import parse_piecewise
-from verifier.parse import parse_expr, parse_region
-from verifier.piecewise import Piece, PiecewiseCheck, check_piecewise
-from verifier.region import Region
+from verifier.claims import kinds as C
+from verifier.core.errors import CaseFileError, InputError
+from verifier.expressions.expr import Expr, const, max_, min_, param, params, substitute
+from verifier.text.latex_in import parse_latex_expr, parse_latex_region
+from verifier.text.lexer import KEYWORDS, MAX_LITERAL_DIGITS
+from verifier.geometry.lp import feasible
+from verifier.text.parse import parse_piecewise
+from verifier.text.parse import parse_expr, parse_region
+from verifier.claims.piecewise import Piece, PiecewiseCheck, check_piecewise
+from verifier.expressions.region import Region
 
 from .expansion import expand
 from .output_target import shown_path
@@ -307,7 +307,7 @@ def load_case(path: str | Path, solver: str = "z3", timeout: float = 30.0, budge
 
 def build_case(path: str, text: str, data: dict, solver="z3", timeout=30.0, budget=None) -> Case:
     """The Case of parsed TOML `data`.  `budget`: seconds for checking each regime-wise definition
-    (coverage and its min/max form), all queries included; default verifier.budget's."""
+    (coverage and its min/max form), all queries included; default verifier.core.budget's."""
     rd = _Reader(path, text)
     rd.keys(data, TOP_KEYS, [], "a case file")
     params = _parameters(rd, data)
@@ -421,7 +421,7 @@ def _pieces(rd: _Reader, key: str, value, case: Case) -> list[Piece]:
 
 
 def _regimes(rd: _Reader, key: str, value, case: Case, solver, timeout, budget=None) -> PiecewiseCheck:
-    from verifier.budget import Budget
+    from verifier.core.budget import Budget
     result = check_piecewise(key, _pieces(rd, key, value, case), case.assume, solver,
                              Budget.of(None, timeout, budget))
     case.regime_checks.append(result)

@@ -2,13 +2,13 @@
 
 from __future__ import annotations
 
-from verifier.errors import InputError
+from verifier.core.errors import InputError
 
 from . import verdict_text as vt
 from .casefile import load_case
 from .decide import decide
 from .exit_codes import exit_code
-from verifier.verdicts import tally, tally_sentence
+from verifier.core.verdicts import tally, tally_sentence
 
 
 def configure(p) -> None:

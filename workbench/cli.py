@@ -12,7 +12,7 @@ import errno
 import math
 import sys
 
-from verifier.errors import GdofError
+from verifier.core.errors import GdofError
 
 from .exit_codes import EXIT_INPUT, EXIT_INTERNAL
 

@@ -1,6 +1,6 @@
 """The verdict on one case claim, the same for `gdof check`, `gdof report` and `gdof bundle`.
 
-A case claim is proved by a plan of obligations that together cover its region R (verifier.verdicts
+A case claim is proved by a plan of obligations that together cover its region R (verifier.core.verdicts
 combines them; nothing here or in the commands combines verdicts by hand):
 - for every bound given regime by regime that the claim mentions, "its regimes cover R": the claim
   says nothing where the scheme is undefined, so an uncovered point refutes it (a forgotten regime);
@@ -17,15 +17,15 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-from verifier.budget import Budget, OutOfBudget
-from verifier.claims import claim_points, violated_at
-from verifier.errors import RegionError
-from verifier.expr import param
-from verifier.prove import Verdict, prove
-from verifier.region import Region, atoms_of
-from verifier.smt import Query, check
-from verifier.verdicts import PROVED, REFUTED, UNKNOWN, Obligation, all_of
-from verifier.witness import best_point
+from verifier.core.budget import Budget, OutOfBudget
+from verifier.claims.kinds import claim_points, violated_at
+from verifier.core.errors import RegionError
+from verifier.expressions.expr import param
+from verifier.claims.one_shot import Verdict, prove
+from verifier.expressions.region import Region, atoms_of
+from verifier.solvers.smt import Query, check
+from verifier.core.verdicts import PROVED, REFUTED, UNKNOWN, Obligation, all_of
+from verifier.claims.witness import best_point
 
 
 @dataclass
@@ -89,7 +89,7 @@ def claim_space_region(claim) -> Region:
 
 def uncovered_point(region, cover, names, solver, budget: Budget):
     """('unsat', None) when `cover` contains `region`, else ('sat', the best point of the region
-    outside it by the counterexample ranking of verifier.witness) or ('unknown', None)."""
+    outside it by the counterexample ranking of verifier.claims.witness) or ('unknown', None)."""
     first = check(Query(region, (), None, names, (cover,)), solver, budget.timeout("coverage"))
     if first.status != "sat":
         return first.status, None
@@ -156,7 +156,7 @@ def _part(case_claim, label, sub, method, solver, budget, cross_check, workers, 
     what = f"the claim holds{' on ' + label if label else ''}"
     try:
         if method == "regimes":
-            from verifier.regime_proof import prove_by_regimes
+            from verifier.regimes.proof import prove_by_regimes
             result = prove_by_regimes(sub, solver, budget.query_timeout, cross_check, workers,
                                       progress(sub.name or label) if progress else None, budget=budget)
         else:
@@ -167,7 +167,7 @@ def _part(case_claim, label, sub, method, solver, budget, cross_check, workers, 
         return Part(label, sub, None, True), Obligation(what, PROVED, f"the sub-region is empty ({err})")
     except OutOfBudget as exc:
         return None, Obligation(what, UNKNOWN, str(exc))
-    from verifier.claims import violation_query
+    from verifier.claims.kinds import violation_query
     ob = Obligation(what, result.status, result.detail, _refutation_check(case_claim, sub, result),
                     violation_query(sub), result)
     return Part(label, sub, result), ob

@@ -1,6 +1,6 @@
-"""Exit status from verdicts: refuted beats unknown beats proved (verifier.verdicts.overall)."""
+"""Exit status from verdicts: refuted beats unknown beats proved (verifier.core.verdicts.overall)."""
 
-from verifier.verdicts import PROVED, REFUTED, UNKNOWN, overall
+from verifier.core.verdicts import PROVED, REFUTED, UNKNOWN, overall
 
 EXIT_OK, EXIT_REFUTED, EXIT_INPUT, EXIT_UNKNOWN, EXIT_INTERNAL = 0, 1, 2, 3, 4
 

@@ -13,10 +13,10 @@ from __future__ import annotations
 from dataclasses import replace
 from itertools import product
 
-from verifier.claims import Claim, Side
-from verifier.errors import InputError
-from verifier.expr import params, substitute
-from verifier.region import Region
+from verifier.claims.kinds import Claim, Side
+from verifier.core.errors import InputError
+from verifier.expressions.expr import params, substitute
+from verifier.expressions.region import Region
 
 
 def _mentioned(claim: Claim) -> set[str]:

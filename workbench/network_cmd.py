@@ -11,7 +11,7 @@ from pathlib import Path
 
 from bounds.fragment import case_fragment
 from bounds.network import from_mapping
-from verifier.errors import CaseFileError, InputError
+from verifier.core.errors import CaseFileError, InputError
 
 
 def configure(p) -> None:

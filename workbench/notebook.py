@@ -4,12 +4,12 @@ Why a wrapper instead of methods on Verdict: the engine's data classes stay free
 a notebook gets rich output by asking for it:
 
     from workbench.notebook import show
-    show(prove(claim))                  # a verifier.prove.Verdict
+    show(prove(claim))                  # a verifier.claims.one_shot.Verdict
     show(decide(case_claim))            # a workbench.decide.Outcome (claims of case files)
     show(run_case("casebook/demo/cache_downlink_manuscript.toml"))   # a whole case (workbench.casebook_cmd)
 
 Every number is printed as an exact fraction, as everywhere else in the tool.  Expressions use
-verifier.latex_out when it is present and otherwise the plain-text form set in math mode.
+verifier.text.latex_out when it is present and otherwise the plain-text form set in math mode.
 """
 
 from __future__ import annotations
@@ -18,8 +18,10 @@ import re
 from fractions import Fraction
 from html import escape
 
-from verifier.expr import to_text
-from verifier.render_latex import name_latex, number_latex
+from verifier.expressions.expr import Expr, to_text
+from verifier.report.build import Report
+from verifier.report.latex import name_latex, number_latex
+from verifier.text.latex_out import expr_to_latex
 
 from . import verdict_text as vt
 
@@ -33,18 +35,39 @@ class Display:
     def __init__(self, item):
         self.item = item
 
-    def _repr_html_(self) -> str:
+    def _repr_html_(self) -> str | None:
+        if isinstance(self.item, Report):
+            from verifier.report.markdown import render_html
+            return render_html(self.item)
+        if isinstance(self.item, Expr):
+            return None          # the notebook falls back to the LaTeX form
         return "".join(_html(x) for x in _items(self.item))
 
-    def _repr_latex_(self) -> str:
+    def _repr_markdown_(self) -> str | None:
+        if isinstance(self.item, Report):
+            from verifier.report.markdown import render_markdown
+            return render_markdown(self.item)
+        return None
+
+    def _repr_latex_(self) -> str | None:
+        if isinstance(self.item, Expr):
+            return f"${expr_latex(self.item)}$"
+        if isinstance(self.item, Report):
+            return None
         return "$$" + r" \\ ".join(_latex(x) for x in _items(self.item)) + "$$"
 
     def __repr__(self) -> str:
+        if isinstance(self.item, Expr):
+            return to_text(self.item)
+        if isinstance(self.item, Report):
+            from verifier.report.text import render_text
+            return render_text(self.item)
         return "\n".join(_text(x) for x in _items(self.item))
 
 
 def show(item) -> Display:
-    """Wrap a Verdict, an Outcome, a CaseRun, or a list of them for rich display."""
+    """Wrap a Verdict, an Outcome, a CaseRun, a list of them, a region-wise Report or an expression
+    for rich display."""
     return Display(item)
 
 
@@ -128,11 +151,7 @@ def math_text(text: str) -> str:
 
 
 def expr_latex(e) -> str:
-    """verifier.latex_out's form when that module exists, else the plain form set in math."""
-    try:
-        from verifier.latex_out import expr_to_latex
-    except ImportError:
-        return math_text(to_text(e))
+    """An expression in the tool's one LaTeX dialect (verifier.text.latex_out)."""
     return expr_to_latex(e)
 
 

@@ -12,7 +12,7 @@ import os
 import tempfile
 from pathlib import Path
 
-from verifier.errors import InputError
+from verifier.core.errors import InputError
 
 
 def shown_path(path) -> str:

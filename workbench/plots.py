@@ -1,7 +1,7 @@
 """Paper-size figures from a ClaimReport: a 1-D slice with both sides, and a 2-D regime map.
 
 Why exact first, floats last: every breakpoint, threshold and counterexample is computed with
-Fractions (verifier.thresholds.slice_profile, exact polygon clipping); floats appear only as the
+Fractions (verifier.regimes.thresholds.slice_profile, exact polygon clipping); floats appear only as the
 coordinates handed to matplotlib.  A figure is therefore a faithful drawing of exact data, and the
 exact values are kept on the figure (`fig.gdof`) for labels and tests.
 
@@ -23,13 +23,13 @@ matplotlib.use("Agg")
 from matplotlib.figure import Figure  # noqa: E402
 from matplotlib.patches import Polygon  # noqa: E402
 
-from verifier.claims import compared_exprs, witness_region  # noqa: E402
-from verifier.errors import InputError  # noqa: E402
-from verifier.expr import evaluate, substitute  # noqa: E402
-from verifier.regime_spec import spec_of  # noqa: E402
-from verifier.render_latex import name_latex  # noqa: E402
-from verifier.render_text import active_cell  # noqa: E402
-from verifier.thresholds import slice_profile  # noqa: E402
+from verifier.claims.kinds import compared_exprs, witness_region  # noqa: E402
+from verifier.core.errors import InputError  # noqa: E402
+from verifier.expressions.expr import evaluate, substitute  # noqa: E402
+from verifier.regimes.spec import spec_of  # noqa: E402
+from verifier.report.latex import name_latex  # noqa: E402
+from verifier.report.text import active_cell  # noqa: E402
+from verifier.regimes.thresholds import slice_profile  # noqa: E402
 
 STYLE = {"font.size": 8, "axes.titlesize": 8, "axes.labelsize": 8, "legend.fontsize": 6,
          "xtick.labelsize": 7, "ytick.labelsize": 7, "lines.linewidth": 1.2}

@@ -1,8 +1,8 @@
 """`gdof report CASE.toml`: the region-wise proof of every (sub)claim, rendered in one format.
 
 Why a separate command from `check`: check gives one verdict per claim quickly; report runs the
-region-wise prover (verifier.regime_proof) and shows why -- regimes, active bounds, thresholds,
-failure sets -- in text, Markdown, LaTeX or exact JSON, all from one verifier.report.Report.
+region-wise prover (verifier.regimes.proof) and shows why -- regimes, active bounds, thresholds,
+failure sets -- in text, Markdown, LaTeX or exact JSON, all from one verifier.report.build.Report.
 """
 
 from __future__ import annotations
@@ -12,11 +12,11 @@ import sys
 import tempfile
 from pathlib import Path
 
-from verifier.render_json import render_json
-from verifier.render_latex import render_latex
-from verifier.render_markdown import render_markdown
-from verifier.render_text import render_text
-from verifier.report import ClaimEntry, Report, build_report, claim_report
+from verifier.report.json_out import render_json
+from verifier.report.latex import render_latex
+from verifier.report.markdown import render_markdown
+from verifier.report.text import render_text
+from verifier.report.build import ClaimEntry, Report, build_report, claim_report
 
 from . import verdict_text as vt
 from .casefile import load_case

@@ -12,7 +12,7 @@ from __future__ import annotations
 import re
 from pathlib import Path
 
-from verifier.smt import smtlib_text
+from verifier.solvers.smt import smtlib_text
 
 EXPECTED = {"proved": "unsat", "refuted": "sat", "unknown": "unknown"}
 

@@ -9,7 +9,7 @@ min{...} never split a sentence.  Forms (A, B, C are expressions; p, q parameter
     A with p = v, q = w equals B    A reduces to B when p = v and q = w
     A symmetric in p, q             A unchanged when p and q are swapped
 
-Expressions are parsed by verifier.parse with the case's parameter and bound names; an error inside a
+Expressions are parsed by verifier.text.parse with the case's parameter and bound names; an error inside a
 part is re-raised with its column counted from the start of the sentence.
 """
 
@@ -19,7 +19,7 @@ import difflib
 import re
 from dataclasses import dataclass, field
 
-from verifier.errors import InputError, ParseError, UnknownNameError
+from verifier.core.errors import InputError, ParseError, UnknownNameError
 
 RELATION_RE = re.compile(r"==|<=|>=|≤|≥|=|<|>")
 KEYWORDS = {

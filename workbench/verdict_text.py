@@ -9,12 +9,12 @@ from __future__ import annotations
 import json
 from fractions import Fraction
 
-from verifier.expr import format_number
-from verifier.prove import Verdict
-from verifier.smt import versions
-from verifier.witness import Counterexample
+from verifier.expressions.expr import format_number
+from verifier.claims.one_shot import Verdict
+from verifier.solvers.smt import versions
+from verifier.claims.witness import Counterexample
 
-from verifier.verdicts import CAUTION  # one wording everywhere: terminal, bundles, reports
+from verifier.core.verdicts import CAUTION  # one wording everywhere: terminal, bundles, reports
 
 
 def verdict_phrase(status: str, expect: str | None = None) -> str:

@@ -29,7 +29,7 @@ printed statement and region with the manuscript.  GDoF statements are asymptoti
 def write_certificates(report, folder: Path) -> list[Path]:
     """certificates/claimNN.json for every proved section that keeps its RegimeProof (NN numbered as
     the plots), plus certificates/README.txt and check_certificates.py when there is at least one."""
-    from verifier.proof_export import export_json
+    from verifier.regimes.export import export_json
     written = []
     for k, section in enumerate(report.sections, 1):
         proof = getattr(section, "proof", None)

@@ -1,0 +1,205 @@
+"""LaTeX rendering of a Report: each side as a `cases` environment over the regimes, tables for
+counterexamples, and a standalone wrapper document that compiles with plain pdflatex + amsmath.
+
+Why `cases`: it is how a GDoF paper states a piecewise formula, so the fragment can be pasted into a
+manuscript as is.  Parameter names become Greek letters (alpha -> \\alpha, alpha_1 -> \\alpha_{1});
+numbers stay exact (\\tfrac{2}{3}).  Formulas and names come from verifier.text.latex_out, so the
+tool prints one LaTeX dialect.
+"""
+
+from __future__ import annotations
+
+from fractions import Fraction
+
+from verifier.expressions.expr import Affine, affine
+from verifier.expressions.region import Atom, Notation, constraint_text
+from verifier.report.build import ClaimReport, Report, num
+from verifier.text.latex_out import expr_to_latex, name_to_latex
+
+_SPECIALS = {"\\": r"\textbackslash{}", "&": r"\&", "%": r"\%", "$": r"\$", "#": r"\#", "_": r"\_",
+             "{": r"\{", "}": r"\}", "~": r"\textasciitilde{}", "^": r"\textasciicircum{}",
+             "<": r"\textless{}", ">": r"\textgreater{}", "|": r"\textbar{}"}
+
+
+def escape(text: str) -> str:
+    """Plain text made safe for LaTeX text mode."""
+    return "".join(_SPECIALS.get(ch, ch) for ch in text)
+
+
+def name_latex(name: str) -> str:
+    """alpha -> \\alpha, alpha_1 / alpha1 -> \\alpha_{1}, gamma' -> \\gamma', snr -> \\mathrm{snr}
+    (verifier.text.latex_out: one LaTeX dialect for the whole tool)."""
+    return name_to_latex(name)
+
+
+def number_latex(q: Fraction) -> str:
+    q = Fraction(q)
+    if q.denominator == 1:
+        return str(q.numerator)
+    sign = "-" if q < 0 else ""
+    return f"{sign}\\tfrac{{{abs(q.numerator)}}}{{{q.denominator}}}"
+
+
+def affine_latex(a: Affine) -> str:
+    """An affine form in the order papers write it: 1 - \\tfrac{1}{2}\\alpha."""
+    return expr_to_latex(a)
+
+
+def atom_latex(atom: Atom) -> str:
+    """A constraint with positive coefficients on each side, shorter side on the left."""
+    return _sides_latex(atom.form, (">", "<") if atom.strict else (r"\ge", r"\le"))
+
+
+def equation_latex(form: Affine) -> str:
+    """The hyperplane form = 0 written as papers do: \alpha = \tfrac{1}{2}."""
+    return _sides_latex(form, ("=", "="))
+
+
+def _sides_latex(f: Affine, rels) -> str:
+    left = affine([(n, c) for n, c in f.coeffs if c > 0], max(f.const, 0))
+    right = affine([(n, -c) for n, c in f.coeffs if c < 0], max(-f.const, 0))
+    size = lambda a: len(a.coeffs) + (a.const != 0)  # noqa: E731
+    if (not left.coeffs and right.coeffs) or (right.coeffs and size(right) < size(left)):
+        return f"{affine_latex(right)} {rels[1]} {affine_latex(left)}"
+    return f"{affine_latex(left)} {rels[0]} {affine_latex(right)}"
+
+
+LATEX_RELS = {"<": "<", "<=": r"\le", "==": "=", ">=": r"\ge", ">": ">"}
+
+
+def condition_latex(atoms) -> str:
+    """Constraints with one-parameter bounds chained: 1/2 <= alpha < 2/3 in LaTeX."""
+    notation = Notation(name=name_latex, number=number_latex, rel=LATEX_RELS.get, atom=atom_latex,
+                        joiner=",\\ ", everywhere=r"\text{everywhere}")
+    return constraint_text(atoms, notation, reorder=True)
+
+
+def regime_condition(row) -> str:
+    conds = [condition_latex(p.polyhedron.atoms) for p in row.polytopes]
+    return conds[0] if len(conds) == 1 else r"\text{ or }".join(f"({c})" for c in conds)
+
+
+def cases_latex(section: ClaimReport, side: int) -> str:
+    """One side of the claim as \\begin{cases} formula & condition \\\\ ... \\end{cases}."""
+    rows = [f"  {affine_latex(r.sides[side].formula)}, & {regime_condition(r)}"
+            for r in section.regimes]
+    sym = r"\mathrm{lhs}" if side == 0 else r"\mathrm{rhs}"
+    return ("\\[\n" + sym + " = \\begin{cases}\n" + " \\\\\n".join(rows) + "\n\\end{cases}\n\\]")
+
+
+def counterexample_table(section: ClaimReport, limit: int = 8) -> str:
+    names = list(section.counterexamples[0].point) if section.counterexamples else []
+    cols = "c" * (len(names) + 4)
+    head = " & ".join([f"${name_latex(n)}$" for n in names] + ["lhs", "rhs", "difference", "inside"])
+    rows = [" & ".join([f"${number_latex(c.point[n])}$" for n in names]
+                       + [f"${number_latex(c.lhs_value)}$", f"${number_latex(c.rhs_value)}$",
+                          f"${number_latex(c.difference)}$", "yes" if c.strictly_inside else "boundary"])
+            + r" \\" for c in section.counterexamples[:limit]]
+    return "\n".join([f"\\begin{{tabular}}{{{cols}}}", r"\hline", head + r" \\", r"\hline"] + rows
+                     + [r"\hline", r"\end{tabular}"])
+
+
+def _summary(section: ClaimReport) -> list[str]:
+    out = []
+    if section.thresholds:
+        items = ", ".join(f"${equation_latex(t.form)}$" for t in section.thresholds)
+        out.append(f"Thresholds: {items}.")
+    f = section.failure
+    if f is not None and f.pieces:
+        where = "; ".join(f"${regime_condition_of(p.polyhedron)}$ (dimension {p.dim})" for p in f.pieces)
+        share = escape(f"{num(f.share)} ({f.share_note})" if f.share is not None else f.share_note)
+        out.append(f"The claim fails on: {where}. Share of the region: {share}.")
+    if section.redundant:
+        out.append("Redundant bounds: " + ", ".join(f"\\texttt{{{escape(p.name)}}}" for p in section.redundant) + ".")
+    for g in section.gaps:
+        if g.value is not None:
+            out.append(f"$\\max(\\mathrm{{{g.direction.replace(' ', '')}}}) = {number_latex(g.value)}$"
+                       + ("" if g.attained else " (supremum, not attained)") + ".")
+    return out
+
+
+def regime_condition_of(poly) -> str:
+    return condition_latex(poly.atoms)
+
+
+SIDE_WORDS = {"inner": "the scheme achieves", "outer": "the converse gives"}
+
+
+def referee_sentence(entry) -> str | None:
+    """One paste-ready LaTeX sentence for a refuted claim, from its first counterexample:
+    'At $\\alpha = 3/2$, $\\gamma = 5/2$ the scheme achieves $3/2$ while the converse gives $2$.'
+    Only for comparisons of two sides (monotone and symmetric claims compare a point with another)."""
+    if entry.status != "refuted":
+        return None
+    for section in entry.sections:
+        if section.status == "refuted" and section.counterexamples and \
+                section.kind in ("relation", "within", "reduces-to"):
+            cex = section.counterexamples[0]
+            at = ", ".join(f"${name_latex(k)} = {number_latex(v)}$" for k, v in cex.point.items())
+            left, right = section.labels[0], section.labels[1]
+            say = [SIDE_WORDS.get(left, f"the left side, {_label_math(left)}, is"),
+                   SIDE_WORDS.get(right, f"the right side, {_label_math(right)}, is")]
+            return (f"At {at} {say[0]} ${number_latex(cex.lhs_value)}$ while {say[1]} "
+                    f"${number_latex(cex.rhs_value)}$.")
+    return None
+
+
+def _label_math(label: str) -> str:
+    return f"\\texttt{{{escape(label)}}}"
+
+
+def claim_latex(entry) -> str:
+    """A claim: its verdict, notes, then each part (a claim decided in parts says which is which)."""
+    declared = f" (declared {entry.expect})" if entry.expect and entry.expect != entry.status else ""
+    parts = [f"\\subsection*{{{escape(entry.name or entry.statement)}}}",
+             f"Verdict: \\textbf{{{entry.status}}}{escape(declared)}. Claim: \\texttt{{{escape(entry.statement)}}}\\par"]
+    parts += [escape(n) + "\\par" for n in entry.notes]
+    sentence = referee_sentence(entry)
+    if sentence:
+        parts.append(f"% paste-ready: {sentence}")
+        parts.append(f"\\emph{{For the referee report:}} {sentence}\\par")
+    for k, section in enumerate(entry.sections, 1):
+        if len(entry.sections) > 1 or section.label:
+            parts.append(f"\\paragraph{{Part {k} of {len(entry.sections)}}} "
+                         f"{escape(section.label or 'whole region')}: \\textbf{{{section.status}}}.")
+        parts.append(section_latex(section))
+    return "\n".join(parts)
+
+
+def section_latex(section: ClaimReport) -> str:
+    parts = []
+    for side, label in enumerate(section.labels):
+        parts.append(f"{'Left' if side == 0 else 'Right'} side, \\texttt{{{escape(label)}}}:")
+        parts.append(cases_latex(section, side))
+    parts += [p + "\\par" for p in _summary(section)]
+    if section.counterexamples:
+        parts += ["Counterexamples (best first):\\par", "\\begin{center}", counterexample_table(section),
+                  "\\end{center}"]
+    return "\n".join(parts)
+
+
+def render_latex(report: Report) -> str:
+    """A LaTeX fragment (needs amsmath) with every section, the solver versions and the caution."""
+    head = [f"% generated by gdof: {escape(report.title)}", f"\\section*{{{escape(report.title or 'Report')}}}"]
+    if report.source:
+        head.append(f"Source: {escape(report.source)}\\par")
+    body = [claim_latex(c) for c in report.claims]
+    have = ", ".join(f"{k} {v}" for k, v in report.versions.items())
+    tail = [f"\\paragraph{{Solver.}} {escape(report.solver)} ({escape(have)}).",
+            f"\\paragraph{{Caution.}} {escape(report.caution)}"]
+    return "\n\n".join(head + body + tail) + "\n"
+
+
+def latex_document(fragment_file: str = "report.tex", figures=()) -> str:
+    """A standalone document that \\input's the fragment and includes the given figure files
+    (a \\clearpage after every four figures keeps LaTeX's float queue short)."""
+    figs = []
+    for k, (f, cap) in enumerate(figures, 1):
+        figs.append(f"\\begin{{figure}}[htbp]\\centering\\includegraphics[width=3.5in]{{{f}}}"
+                    f"\\caption{{{escape(cap)}}}\\end{{figure}}")
+        if k % 4 == 0:
+            figs.append(r"\clearpage")
+    return "\n".join([r"\documentclass[11pt]{article}", r"\usepackage[T1]{fontenc}",
+                      r"\usepackage[margin=1in]{geometry}", r"\usepackage{amsmath,amssymb}",
+                      r"\usepackage{graphicx}", r"\begin{document}", f"\\input{{{fragment_file}}}"] + figs
+                     + [r"\end{document}", ""])
