@@ -25,12 +25,12 @@ from fractions import Fraction as F
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), ".."))
 
 from verifier.claims.kinds import Side, relation  # noqa: E402
-from verifier.expressions.expr import Affine, Min, Sum, extremum_nodes, max_, min_, param, pos  # noqa: E402
-from verifier.geometry.lp import combine, feasible  # noqa: E402
 from verifier.claims.one_shot import prove  # noqa: E402
+from verifier.expressions.expr import Affine, Min, Sum, extremum_nodes, max_, min_, param, pos  # noqa: E402
+from verifier.expressions.region import Atom, Region, atoms_of  # noqa: E402
+from verifier.geometry.lp import combine, feasible  # noqa: E402
 from verifier.regimes.proof import prove_by_regimes  # noqa: E402
 from verifier.regimes.spec import spec_of, targets  # noqa: E402
-from verifier.expressions.region import Atom, Region, atoms_of  # noqa: E402
 
 
 def nonneg(*names, hi=None):

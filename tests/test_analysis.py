@@ -4,8 +4,8 @@ from fractions import Fraction as F
 
 from verifier.claims.kinds import Side, relation
 from verifier.expressions.expr import affine, max_, min_, param, pos
-from verifier.regimes.proof import prove_by_regimes
 from verifier.expressions.region import Region, atoms_of
+from verifier.regimes.proof import prove_by_regimes
 
 a, b = param("alpha"), param("beta")
 # Etkin, Tse, Wang, "Gaussian interference channel capacity to within one bit", IEEE Trans. IT 54(12),

@@ -14,10 +14,10 @@ from pathlib import Path
 import pytest
 
 from verifier.claims import kinds as C
+from verifier.claims.one_shot import prove
 from verifier.core.errors import CaseFileError, InputError, RegionError, UnknownNameError
 from verifier.expressions.expr import evaluate, min_, param
 from verifier.text.parse import parse_expr, parse_region
-from verifier.claims.one_shot import prove
 from workbench.assertions import assert_case, assert_claim, claim_from_text
 from workbench.notebook import show
 

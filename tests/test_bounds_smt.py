@@ -10,9 +10,9 @@ from bounds.network import relay_channel
 from bounds.projection import max_sum
 from bounds.tin import tin_condition, tin_sum_gdof
 from verifier.claims.kinds import relation
+from verifier.claims.one_shot import prove
 from verifier.expressions.expr import evaluate, max_, min_, param
 from verifier.text.parse import parse_region
-from verifier.claims.one_shot import prove
 
 
 def _proved(lhs, rhs, region_text):

@@ -7,13 +7,13 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from verifier.regimes.cell_proof import Bound, Piece
-from verifier.regimes.certificates import check_certificate
 from verifier.claims.kinds import relation, within
 from verifier.expressions.expr import max_, min_, param, pos
-from verifier.geometry.farkas import Farkas
-from verifier.regimes.proof import prove_by_regimes
 from verifier.expressions.region import Atom, Region, atoms_of
+from verifier.geometry.farkas import Farkas
+from verifier.regimes.cell_proof import Bound, Piece
+from verifier.regimes.certificates import check_certificate
+from verifier.regimes.proof import prove_by_regimes
 from tests.strategies import exprs
 
 a, b = param("alpha"), param("beta")

@@ -3,10 +3,10 @@
 import tomllib
 
 from verifier.claims.kinds import relation
-from verifier.expressions.expr import max_, min_, param
-from verifier.text.parse import parse_expr
 from verifier.claims.one_shot import prove
+from verifier.expressions.expr import max_, min_, param
 from verifier.expressions.region import Region, atoms_of
+from verifier.text.parse import parse_expr
 from workbench.cli import main
 
 NET = "examples/two_hop_relay.toml"

@@ -10,8 +10,8 @@ from hypothesis import assume, given, settings
 from hypothesis import strategies as st
 
 from verifier.claims.kinds import relation, violated_at, within
-from verifier.expressions.expr import evaluate, param
 from verifier.claims.one_shot import prove
+from verifier.expressions.expr import evaluate, param
 from verifier.expressions.region import Region, atoms_of
 from tests.strategies import exprs, points
 

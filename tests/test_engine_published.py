@@ -5,8 +5,8 @@ from fractions import Fraction as F
 import pytest
 
 from verifier.claims.kinds import monotone, reduces_to, relation, symmetric, within
-from verifier.expressions.expr import evaluate, max_, min_, param, pos
 from verifier.claims.one_shot import prove
+from verifier.expressions.expr import evaluate, max_, min_, param, pos
 from verifier.expressions.region import Region, atoms_of
 
 a = param("alpha")

@@ -4,13 +4,13 @@ from fractions import Fraction as F
 
 import pytest
 
-from verifier.solvers import smt
 from verifier.claims.kinds import relation, violated_at, violation_query
-from verifier.core.errors import RegionError
-from verifier.expressions.expr import max_, min_, param
 from verifier.claims.one_shot import PROVED, REFUTED, UNKNOWN, prove
+from verifier.core.errors import RegionError
 from verifier.core.verdicts import backends
+from verifier.expressions.expr import max_, min_, param
 from verifier.expressions.region import Region, atoms_of
+from verifier.solvers import smt
 
 a, b = param("alpha"), param("beta")
 QUADRANT = Region.of(*atoms_of(a, ">=", 0), *atoms_of(b, ">=", 0))

@@ -7,8 +7,8 @@ from hypothesis import strategies as st
 
 from verifier.claims.kinds import relation, violated_at
 from verifier.expressions.expr import abs_, evaluate, max_, min_, param
-from verifier.regimes.proof import prove_by_regimes
 from verifier.expressions.region import Region, atoms_of
+from verifier.regimes.proof import prove_by_regimes
 from tests.strategies import exprs, points
 
 a, b, c = param("alpha"), param("beta"), param("gamma")

@@ -13,8 +13,8 @@ from verifier.text.latex_in import (parse_latex_expr, parse_latex_piecewise, par
                                parse_latex_relation)
 from verifier.text.latex_out import (atom_to_latex, expr_to_latex, name_to_latex, piecewise_to_latex,
                                 region_to_latex)
-from verifier.text.parse import parse_expr, parse_piecewise, parse_region
 from verifier.expressions.region import Atom, Region
+from verifier.text.parse import parse_expr, parse_piecewise, parse_region
 
 NAMES = ("alpha", "beta", "gamma")
 

@@ -15,12 +15,12 @@ from scipy.optimize import linprog
 from scipy.spatial import ConvexHull
 
 from verifier.expressions.expr import affine, param
-from verifier.geometry.lp import feasible, minimize
+from verifier.expressions.region import Atom, Polyhedron, atoms_of
 from verifier.geometry.farkas import check_farkas, farkas
+from verifier.geometry.lp import feasible, minimize
 from verifier.geometry.shape import difference, irredundant, nice_point, shape, simplest_between
 from verifier.geometry.vertices import generators
 from verifier.geometry.volume import volume
-from verifier.expressions.region import Atom, Polyhedron, atoms_of
 
 NAMES = ("a", "b", "c")
 small = st.fractions(-4, 4, max_denominator=3)

@@ -9,8 +9,8 @@ from hypothesis import given, settings, strategies as st
 from tests.strategies import exprs, points, regions
 from verifier.core.errors import InputError, NonlinearError, ParseError, RegionError, UnknownNameError
 from verifier.expressions.expr import abs_, add, const, evaluate, max_, min_, param, pos, scale, to_text
-from verifier.text.parse import Piecewise, parse_expr, parse_piecewise, parse_region, parse_relation
 from verifier.expressions.region import Region, atoms_of
+from verifier.text.parse import Piecewise, parse_expr, parse_piecewise, parse_region, parse_relation
 from verifier.text.sympy_bridge import to_sympy
 
 A, B, G = param("alpha"), param("beta"), param("gamma")

@@ -3,11 +3,11 @@
 from fractions import Fraction as F
 
 from verifier.claims.kinds import relation
-from verifier.expressions.expr import evaluate, max_, min_, param
-from verifier.text.parse import parse_expr, parse_region
-from verifier.claims.piecewise import Piece, check_piecewise
 from verifier.claims.one_shot import prove
+from verifier.claims.piecewise import Piece, check_piecewise
+from verifier.expressions.expr import evaluate, max_, min_, param
 from verifier.expressions.region import Region, atoms_of
+from verifier.text.parse import parse_expr, parse_region
 from workbench.casefile import build_case
 from workbench.decide import decide
 

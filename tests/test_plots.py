@@ -6,8 +6,8 @@ import pytest
 
 from report_fixtures import DEMO, DEMO_WRONG, ETW, W_CLAIM, section
 from verifier.core.errors import InputError
-from verifier.expressions.region import atoms_of
 from verifier.expressions.expr import param
+from verifier.expressions.region import atoms_of
 from workbench.plots import box_polygon, regime_map, save_figure, slice_figure
 
 

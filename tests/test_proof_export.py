@@ -17,12 +17,12 @@ import pytest
 
 from verifier.claims.kinds import monotone, reduces_to, relation, symmetric, within
 from verifier.expressions.expr import max_, min_, param, pos
-from verifier.text.parse import parse_region
+from verifier.expressions.region import Polyhedron, Region, atoms_of
 from verifier.regimes.export import FORMAT, empty_certificate, export_proof
 from verifier.regimes.proof import prove_by_regimes
-from verifier.expressions.region import Polyhedron, Region, atoms_of
-from verifier.report.json_out import section_json
 from verifier.report.build import claim_report
+from verifier.report.json_out import section_json
+from verifier.text.parse import parse_region
 from workbench.cli import main
 from workbench.standalone import CHECKER
 

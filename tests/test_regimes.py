@@ -8,12 +8,12 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from verifier.claims.kinds import Side, monotone, reduces_to, relation, symmetric
+from verifier.claims.one_shot import prove
 from verifier.core.errors import RegionError
 from verifier.expressions.expr import affine, evaluate, max_, min_, param
-from verifier.claims.one_shot import prove
-from verifier.regimes.proof import prove_by_regimes
-from verifier.regimes.decompose import decompose
 from verifier.expressions.region import Polyhedron, Region, atoms_of
+from verifier.regimes.decompose import decompose
+from verifier.regimes.proof import prove_by_regimes
 from verifier.regimes.thresholds import slice_profile
 from tests.strategies import exprs, points
 

@@ -8,13 +8,13 @@ from fractions import Fraction
 import pytest
 
 from report_fixtures import DEMO, DEMO_WRONG, ETW, W_CLAIM, section
-from verifier.expressions.region import Atom, atoms_of
 from verifier.expressions.expr import param
+from verifier.expressions.region import Atom, atoms_of
+from verifier.report.build import CAUTION, build_report, constraint_text
 from verifier.report.json_out import fraction, render_json
 from verifier.report.latex import render_latex
 from verifier.report.markdown import render_markdown
 from verifier.report.text import render_text
-from verifier.report.build import CAUTION, build_report, constraint_text
 
 RENDERERS = (render_text, render_markdown, render_latex, render_json)
 

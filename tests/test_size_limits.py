@@ -16,12 +16,12 @@ from bounds.cutset import TooManyCuts, message_cut_bounds, sum_cutset_bounds
 from bounds.interference import ic_network
 from bounds.matching import MatchingLimit, matching_gdof, maximal_matchings
 from bounds.network import MAX_NODES, Network, from_mapping, relay_channel
-from verifier.text import parse
 from verifier.core.errors import InputError, ParseError, RegionError
 from verifier.expressions.expr import add, evaluate, min_, param, pos
+from verifier.expressions.region import MAX_POLYHEDRA, MAX_PRODUCT_PAIRS, Polyhedron, Region, atoms_of
+from verifier.text import parse
 from verifier.text.latex_in import parse_latex_expr, parse_latex_region
 from verifier.text.parse import parse_expr, parse_piecewise, parse_region
-from verifier.expressions.region import MAX_POLYHEDRA, MAX_PRODUCT_PAIRS, Polyhedron, Region, atoms_of
 from workbench.cli import main
 
 

@@ -9,14 +9,14 @@ from fractions import Fraction as F
 
 import pytest
 
-from verifier.solvers import smt
-from verifier.core.budget import Budget
 from verifier.claims.kinds import claim_points, reduces_to, relation, violated_at
-from verifier.expressions.expr import max_, min_, param
-from verifier.text.parse import parse_region
 from verifier.claims.one_shot import prove
-from verifier.regimes.proof import prove_by_regimes
+from verifier.core.budget import Budget
 from verifier.core.verdicts import PROVED, REFUTED, UNKNOWN, Obligation, all_of, methods, overall
+from verifier.expressions.expr import max_, min_, param
+from verifier.regimes.proof import prove_by_regimes
+from verifier.solvers import smt
+from verifier.text.parse import parse_region
 from workbench.cli import main
 
 a, b = param("alpha"), param("beta")

@@ -24,11 +24,11 @@ from pathlib import Path
 from typing import Iterable, Mapping
 
 from verifier.claims import kinds as C
+from verifier.claims.one_shot import Verdict, prove
 from verifier.core.errors import CaseFileError, InputError, UnknownNameError
 from verifier.expressions.expr import Expr, params, substitute
-from verifier.text.parse import parse_expr, parse_region
-from verifier.claims.one_shot import Verdict, prove
 from verifier.expressions.region import Region
+from verifier.text.parse import parse_expr, parse_region
 
 from . import verdict_text as vt
 from .casebook_cmd import CaseRun, run_case

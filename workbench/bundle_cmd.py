@@ -24,10 +24,10 @@ import tempfile
 from pathlib import Path
 
 from verifier.core.errors import InputError
+from verifier.report.build import Report
 from verifier.report.json_out import counterexample_json, render_json
 from verifier.report.latex import latex_document, render_latex
 from verifier.report.markdown import render_markdown
-from verifier.report.build import Report
 
 from .casefile import load_case
 from .output_target import shown_path

@@ -34,15 +34,15 @@ from fractions import Fraction
 from pathlib import Path
 
 from verifier.claims import kinds as C
+from verifier.claims.piecewise import Piece, PiecewiseCheck, check_piecewise
 from verifier.core.errors import CaseFileError, InputError
 from verifier.expressions.expr import Expr, const, max_, min_, param, params, substitute
+from verifier.expressions.region import Region
+from verifier.geometry.lp import feasible
 from verifier.text.latex_in import parse_latex_expr, parse_latex_region
 from verifier.text.lexer import KEYWORDS, MAX_LITERAL_DIGITS
-from verifier.geometry.lp import feasible
-from verifier.text.parse import parse_piecewise
 from verifier.text.parse import parse_expr, parse_region
-from verifier.claims.piecewise import Piece, PiecewiseCheck, check_piecewise
-from verifier.expressions.region import Region
+from verifier.text.parse import parse_piecewise
 
 from .expansion import expand
 from .output_target import shown_path

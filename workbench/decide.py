@@ -17,15 +17,15 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-from verifier.core.budget import Budget, OutOfBudget
 from verifier.claims.kinds import claim_points, violated_at
-from verifier.core.errors import RegionError
-from verifier.expressions.expr import param
 from verifier.claims.one_shot import Verdict, prove
+from verifier.claims.witness import best_point
+from verifier.core.budget import Budget, OutOfBudget
+from verifier.core.errors import RegionError
+from verifier.core.verdicts import PROVED, REFUTED, UNKNOWN, Obligation, all_of
+from verifier.expressions.expr import param
 from verifier.expressions.region import Region, atoms_of
 from verifier.solvers.smt import Query, check
-from verifier.core.verdicts import PROVED, REFUTED, UNKNOWN, Obligation, all_of
-from verifier.claims.witness import best_point
 
 
 @dataclass

@@ -27,9 +27,9 @@ from verifier.claims.kinds import compared_exprs, witness_region  # noqa: E402
 from verifier.core.errors import InputError  # noqa: E402
 from verifier.expressions.expr import evaluate, substitute  # noqa: E402
 from verifier.regimes.spec import spec_of  # noqa: E402
+from verifier.regimes.thresholds import slice_profile  # noqa: E402
 from verifier.report.latex import name_latex  # noqa: E402
 from verifier.report.text import active_cell  # noqa: E402
-from verifier.regimes.thresholds import slice_profile  # noqa: E402
 
 STYLE = {"font.size": 8, "axes.titlesize": 8, "axes.labelsize": 8, "legend.fontsize": 6,
          "xtick.labelsize": 7, "ytick.labelsize": 7, "lines.linewidth": 1.2}

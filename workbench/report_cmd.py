@@ -12,11 +12,11 @@ import sys
 import tempfile
 from pathlib import Path
 
+from verifier.report.build import ClaimEntry, Report, build_report, claim_report
 from verifier.report.json_out import render_json
 from verifier.report.latex import render_latex
 from verifier.report.markdown import render_markdown
 from verifier.report.text import render_text
-from verifier.report.build import ClaimEntry, Report, build_report, claim_report
 
 from . import verdict_text as vt
 from .casefile import load_case

@@ -9,10 +9,10 @@ from __future__ import annotations
 import json
 from fractions import Fraction
 
-from verifier.expressions.expr import format_number
 from verifier.claims.one_shot import Verdict
-from verifier.solvers.smt import versions
 from verifier.claims.witness import Counterexample
+from verifier.expressions.expr import format_number
+from verifier.solvers.smt import versions
 
 from verifier.core.verdicts import CAUTION  # one wording everywhere: terminal, bundles, reports
 

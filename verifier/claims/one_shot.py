@@ -15,12 +15,12 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-from verifier.core.budget import Budget, OutOfBudget
 from verifier.claims.kinds import Claim, violated_at, violation_query, witness_region
-from verifier.core.errors import RegionError
-from verifier.solvers.smt import Answer, Query, check
-from verifier.core.verdicts import PROVED, REFUTED, UNKNOWN, backends
 from verifier.claims.witness import Counterexample, best_counterexample, describe
+from verifier.core.budget import Budget, OutOfBudget
+from verifier.core.errors import RegionError
+from verifier.core.verdicts import PROVED, REFUTED, UNKNOWN, backends
+from verifier.solvers.smt import Answer, Query, check
 
 __all__ = ["PROVED", "REFUTED", "UNKNOWN", "Verdict", "prove", "ensure_nonempty"]
 

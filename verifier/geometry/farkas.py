@@ -14,8 +14,8 @@ from fractions import Fraction
 from typing import Sequence
 
 from verifier.expressions.expr import Affine
-from verifier.geometry.lp import ONE, ZERO, minimize, rows_of, solve_standard
 from verifier.expressions.region import Atom
+from verifier.geometry.lp import ONE, ZERO, minimize, rows_of, solve_standard
 
 
 

@@ -19,9 +19,9 @@ from fractions import Fraction
 from typing import Sequence
 
 from verifier.expressions.expr import Affine, affine
-from verifier.geometry.lp import ONE, ZERO, feasible, max_slack, minimize_rows, rows_of
-from verifier.geometry.farkas import farkas
 from verifier.expressions.region import Atom
+from verifier.geometry.farkas import farkas
+from verifier.geometry.lp import ONE, ZERO, feasible, max_slack, minimize_rows, rows_of
 
 
 @dataclass(frozen=True)

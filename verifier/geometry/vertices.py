@@ -17,8 +17,8 @@ from fractions import Fraction
 from typing import Sequence
 
 from verifier.expressions.expr import Affine
-from verifier.geometry.lp import ZERO, rows_of
 from verifier.expressions.region import Atom
+from verifier.geometry.lp import ZERO, rows_of
 
 
 @dataclass(frozen=True)

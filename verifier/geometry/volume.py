@@ -10,9 +10,9 @@ import math
 from fractions import Fraction
 from typing import Sequence
 
+from verifier.expressions.region import Atom
 from verifier.geometry.lp import ZERO, rows_of
 from verifier.geometry.vertices import generators
-from verifier.expressions.region import Atom
 
 
 

@@ -17,8 +17,8 @@ from fractions import Fraction
 from typing import Sequence
 
 from verifier.expressions.expr import add, scale
-from verifier.geometry.lp import maximize
 from verifier.expressions.region import Polyhedron
+from verifier.geometry.lp import maximize
 
 
 @dataclass(frozen=True)

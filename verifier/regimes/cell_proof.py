@@ -27,9 +27,9 @@ from fractions import Fraction
 from typing import Sequence
 
 from verifier.expressions.expr import Affine, Expr, Max, Min, Sum, children, evaluate
-from verifier.geometry.lp import ONE, combine
-from verifier.geometry.farkas import Farkas, farkas, farkas_by_cone
 from verifier.expressions.region import Atom
+from verifier.geometry.farkas import Farkas, farkas, farkas_by_cone
+from verifier.geometry.lp import ONE, combine
 
 
 @dataclass(frozen=True)

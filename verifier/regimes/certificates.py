@@ -19,10 +19,10 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import Sequence
 
-from verifier.regimes.cell_proof import Bound, Piece
 from verifier.expressions.expr import Affine, Expr, Max, Min, Sum
-from verifier.geometry.farkas import Farkas, farkas
 from verifier.expressions.region import Atom
+from verifier.geometry.farkas import Farkas, farkas
+from verifier.regimes.cell_proof import Bound, Piece
 from verifier.regimes.spec import Spec, obligations
 
 

@@ -23,10 +23,10 @@ from fractions import Fraction
 from typing import Callable, Sequence
 
 from verifier.expressions.expr import Affine, Expr, affine
-from verifier.regimes.cell_proof import NeedSplit, Piece, affine_pieces, number_nodes
-from verifier.geometry.vertices import Cone
-from verifier.geometry.shape import difference, shape
 from verifier.expressions.region import Atom, Region
+from verifier.geometry.shape import difference, shape
+from verifier.geometry.vertices import Cone
+from verifier.regimes.cell_proof import NeedSplit, Piece, affine_pieces, number_nodes
 
 MAX_CELLS = 50_000   # each cell keeps its cone generators: beyond this, memory rather than time runs out
 

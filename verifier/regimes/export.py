@@ -31,14 +31,14 @@ import json
 from fractions import Fraction
 from typing import Sequence
 
-from verifier.regimes.cell_proof import Bound, Piece
 from verifier.expressions.expr import Affine, Expr, Max, Min, Sum, ZERO_AFFINE, format_number
-from verifier.geometry.lp import ONE, ZERO, rows_of, solve_standard
+from verifier.expressions.region import Atom
 from verifier.geometry.farkas import Farkas, check_farkas
+from verifier.geometry.lp import ONE, ZERO, rows_of, solve_standard
 from verifier.geometry.shape import difference
+from verifier.regimes.cell_proof import Bound, Piece
 from verifier.regimes.spec import spec_of
 from verifier.regimes.work import received_certificate
-from verifier.expressions.region import Atom
 
 FORMAT = "gdof-workbench-certificate"
 VERSION = 1

@@ -20,10 +20,10 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import Mapping, Sequence
 
+from verifier.expressions.region import Atom, Polyhedron, Region
 from verifier.geometry.lp import maximize
 from verifier.geometry.shape import irredundant, nice_point, shape
 from verifier.geometry.volume import volume
-from verifier.expressions.region import Atom, Polyhedron, Region
 from verifier.regimes.spec import Spec, obligations, violation_amount
 
 

@@ -16,10 +16,10 @@ from __future__ import annotations
 from dataclasses import dataclass, field, replace
 from typing import Sequence
 
+from verifier.expressions.region import Atom, Polyhedron
 from verifier.geometry.lp import feasible
 from verifier.geometry.shape import difference, irredundant, nice_point
 from verifier.geometry.vertices import Cone, _dot, facet_atoms
-from verifier.expressions.region import Atom, Polyhedron
 
 
 @dataclass(frozen=True)

@@ -33,23 +33,23 @@ from dataclasses import dataclass, field
 from functools import partial
 from typing import Callable, Mapping
 
-from verifier.regimes.analysis import Gap, PartReport, max_gap, part_reports
-from verifier.core.budget import Budget, OutOfBudget
-from verifier.regimes.certificates import check_certificate
 from verifier.claims.kinds import Claim, witness_of
-from verifier.core.errors import RegionError
-from verifier.regimes.failure import FailureRegion, failure_region
-from verifier.geometry.shape import reduce_modulo
 from verifier.claims.one_shot import Verdict, prove
-from verifier.regimes.polytope import cell_polytope, convex_union, nice, region_is_convex
-from verifier.regimes.spec import spec_of, targets
-from verifier.regimes.work import PROVED, REFUTED, UNKNOWN, Regime, assemble, finish_cell
+from verifier.claims.witness import Counterexample, best_counterexample
+from verifier.core.budget import Budget, OutOfBudget
+from verifier.core.errors import RegionError
+from verifier.core.verdicts import methods, overall
+from verifier.geometry.shape import reduce_modulo
+from verifier.regimes.analysis import Gap, PartReport, max_gap, part_reports
+from verifier.regimes.certificates import check_certificate
 from verifier.regimes.decompose import decompose, disjoint_pieces
 from verifier.regimes.decompose import worker_setup as regimes_worker_setup
+from verifier.regimes.failure import FailureRegion, failure_region
+from verifier.regimes.polytope import cell_polytope, convex_union, nice, region_is_convex
+from verifier.regimes.spec import spec_of, targets
 from verifier.regimes.thresholds import Threshold, thresholds
 from verifier.regimes.witness import counterexamples
-from verifier.core.verdicts import methods, overall
-from verifier.claims.witness import Counterexample, best_counterexample
+from verifier.regimes.work import PROVED, REFUTED, UNKNOWN, Regime, assemble, finish_cell
 
 
 @dataclass(frozen=True)

@@ -19,10 +19,10 @@ from math import gcd
 from typing import Mapping, Sequence
 
 from verifier.expressions.expr import Affine, Expr, affine, common_denominator, substitute
+from verifier.expressions.region import Atom, Region, atom_text
 from verifier.geometry.lp import feasible, substitute_affine
 from verifier.geometry.shape import shape
 from verifier.regimes.decompose import Cell, decompose, normalise
-from verifier.expressions.region import Atom, Region, atom_text
 
 
 @dataclass(frozen=True)

@@ -14,9 +14,9 @@ from __future__ import annotations
 from fractions import Fraction
 
 from verifier.claims.kinds import Claim, violated_at, witness_of
+from verifier.claims.witness import Counterexample, best_counterexample, describe
 from verifier.regimes.failure import denominator
 from verifier.regimes.spec import Spec
-from verifier.claims.witness import Counterexample, best_counterexample, describe
 
 REFUTED = "refuted"
 

@@ -19,13 +19,13 @@ from dataclasses import dataclass, field, replace
 from functools import cached_property
 from typing import Mapping
 
+from verifier.expressions.expr import Affine
 from verifier.regimes.cell_proof import with_certificates
 from verifier.regimes.certificates import Certificate, certify, pack, unpack
-from verifier.expressions.expr import Affine
+from verifier.regimes.decompose import Cell
 from verifier.regimes.failure import FailurePiece, failure_piece, violations
 from verifier.regimes.polytope import Polytope
 from verifier.regimes.spec import Spec
-from verifier.regimes.decompose import Cell
 
 PROVED, REFUTED, UNKNOWN = "proved", "refuted", "unknown"
 

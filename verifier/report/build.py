@@ -16,16 +16,16 @@ from dataclasses import dataclass, field
 from fractions import Fraction
 from typing import Mapping, Sequence
 
-from verifier.regimes.analysis import Gap, PartReport
 from verifier.claims.kinds import Claim
+from verifier.claims.witness import Counterexample
 from verifier.expressions.expr import Affine, format_number
+from verifier.expressions.region import Atom
+from verifier.expressions.region import constraint_text as region_constraint_text
+from verifier.regimes.analysis import Gap, PartReport
 from verifier.regimes.failure import FailureRegion
 from verifier.regimes.polytope import Polytope
 from verifier.regimes.proof import RegimeProof
-from verifier.expressions.region import constraint_text as region_constraint_text
-from verifier.expressions.region import Atom
 from verifier.regimes.thresholds import Threshold
-from verifier.claims.witness import Counterexample
 
 from verifier.core.verdicts import CAUTION  # one wording everywhere (re-exported here for renderers)
 

@@ -9,8 +9,8 @@ from __future__ import annotations
 import html
 
 from verifier.core.verdicts import tally_sentence
-from verifier.report.text import part_heading, summary_lines, table_rows
 from verifier.report.build import ClaimEntry, ClaimReport, Report, count, solver_text
+from verifier.report.text import part_heading, summary_lines, table_rows
 
 
 def _cell(text: str) -> str:

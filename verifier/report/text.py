@@ -6,8 +6,8 @@ referee reports, and `grep` on a verdict must work.
 
 from __future__ import annotations
 
-from verifier.expressions.expr import to_text
 from verifier.core.verdicts import tally_sentence
+from verifier.expressions.expr import to_text
 from verifier.report.build import ClaimEntry, ClaimReport, Report, count, failure_share_text, gap_text, num, point_text, solver_text
 
 

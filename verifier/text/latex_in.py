@@ -20,9 +20,9 @@ from typing import Iterable
 
 from verifier.core.errors import ParseError, UnknownNameError
 from verifier.expressions.expr import Expr
+from verifier.expressions.region import Region
 from verifier.text.lexer import GREEK, UNICODE_OPS, UNICODE_RELS, Token, check_length, read_number
 from verifier.text.parse import Parser, Piecewise
-from verifier.expressions.region import Region
 
 GREEK_MACROS = {name: name for name in (
     "alpha beta gamma delta epsilon zeta eta theta iota kappa lambda mu nu xi pi rho sigma tau upsilon "
