@@ -15,6 +15,7 @@ from verifier.expressions.region import Polyhedron, Region, atoms_of
 from verifier.regimes.decompose import decompose
 from verifier.regimes.proof import prove_by_regimes
 from verifier.regimes.thresholds import slice_profile
+from verifier.text.parse import parse_region
 from tests.strategies import exprs, points
 
 a, b, g = param("alpha"), param("beta"), param("gamma")
@@ -202,14 +203,20 @@ def test_empty_region_is_an_input_error():
 
 
 def _thresholds_by_lp_only(regimes, names):
-    """Reference: every candidate pair decided by the exact adjacency LP alone (no quick tests)."""
+    """Reference: every candidate pair decided by the exact adjacency LP alone (no quick tests); a
+    piece lying inside the plane (LP: neither side of it meets the piece) is not divided by it."""
+    from verifier.expressions.region import Atom
+    from verifier.geometry.lp import feasible
     from verifier.regimes.decompose import normalise
     from verifier.regimes.thresholds import _adjacent
+
+    def inside(p, h):
+        return all(feasible(list(p.polyhedron.atoms) + [Atom(side, True)], names) is None for side in (h, -h))
     planes = {}
     for r, regime in enumerate(regimes):
         for p in regime.polytopes:
             for atom in p.polyhedron.atoms:
-                if atom.form.coeffs:
+                if atom.form.coeffs and not inside(p, normalise(atom.form)):
                     planes.setdefault(normalise(atom.form), []).append((r, p, atom.form.coeffs[0][1] > 0))
     out = {}
     for h, owners in planes.items():
@@ -233,6 +240,21 @@ def test_threshold_quick_tests_never_change_the_thresholds(lhs, rhs):
     assert fast == _thresholds_by_lp_only(rp.regimes, rp.names)
 
 
+@settings(max_examples=15)
+@given(exprs(names=("alpha", "beta", "gamma"), max_leaves=6), exprs(names=("alpha", "beta", "gamma"), max_leaves=6),
+       st.sampled_from(["unbounded", "on a plane", "unbounded on a plane"]))
+def test_threshold_shared_rays_never_change_the_thresholds(lhs, rhs, shape):
+    # unbounded pieces and pieces of lower dimension than the space are accepted by shared vertices
+    # AND rays; the result must equal the plain LP test's
+    from verifier.regimes.thresholds import thresholds
+    text = {"unbounded": "alpha >= 0, beta >= 0, gamma >= 0",
+            "on a plane": "0 <= alpha <= 2, 0 <= beta <= 2, gamma == alpha",
+            "unbounded on a plane": "alpha >= 0, beta >= 0, gamma == alpha + beta"}[shape]
+    rp = prove_by_regimes(relation(lhs, "<=", rhs, parse_region(text)), smt="none", improve_witness=False)
+    fast = {t.form: set(t.between) for t in thresholds(rp.regimes, rp.names)}
+    assert fast == _thresholds_by_lp_only(rp.regimes, rp.names)
+
+
 def test_threshold_quick_tests_on_a_chain_of_six():
     from verifier.regimes.thresholds import thresholds
     xs = [param(f"x{i}") for i in range(1, 5)]
@@ -241,3 +263,10 @@ def test_threshold_quick_tests_on_a_chain_of_six():
     rp = prove_by_regimes(relation(f, "<=", 3, region), smt="none", improve_witness=False)
     fast = {t.form: set(t.between) for t in thresholds(rp.regimes, rp.names)}
     assert fast == _thresholds_by_lp_only(rp.regimes, rp.names) and len(fast) == 3
+
+
+def test_the_regions_own_equalities_are_no_thresholds():
+    # on the slice alpha == beta, min(alpha, 1) has one threshold, alpha = 1; the slice's own
+    # hyperplane separates nothing (hand-derived)
+    rp = prove_by_regimes(relation(min_(a, 1), "<=", 1, parse_region("alpha == beta, alpha >= 0")), smt="none")
+    assert [t.text for t in rp.thresholds] == ["alpha = 1"]

@@ -4,7 +4,7 @@ Why: papers state regimes by their boundaries ("for alpha <= 1/2 ...", "when gam
 these are the facets shared by two regimes.  Candidates are found by hashing each polytope's
 normalised facet hyperplanes, so only pieces with a facet on the same hyperplane are ever compared;
 a cheap exact box test (computed once per piece and hyperplane) rejects most of those pairs, and
-shared vertices spanning the facet accept most of the rest, before any LP.  Two convex pieces A, B of different regimes are
+shared vertices and rays spanning the facet accept most of the rest, before any LP.  Two convex pieces A, B of different regimes are
 adjacent through h = 0 when h is among the irredundant constraints of both and the closures meet in a
 set of dimension dim(A) - 1 lying in h = 0 (an exact shape computation, not a picture).
 A slice fixes all parameters but one to rationals and lists, per compared expression, the exact
@@ -50,10 +50,23 @@ def _integer_vertices(p, names, cache: dict):
     return got
 
 
+def _primitive(vec, line: bool = False) -> tuple[int, ...]:
+    """A direction as its primitive integer vector (a line's also with a positive first entry), so
+    that equal directions compare equal whatever their scale."""
+    m = common_denominator(vec)
+    ints = [int(x * m) for x in vec]
+    g = gcd(*ints) or 1
+    ints = [x // g for x in ints]
+    if line and next((x for x in ints if x), 0) < 0:
+        ints = [-x for x in ints]
+    return tuple(ints)
+
+
 def _facet_box(p, h: Affine, names, cache: dict, plane_scale: int):
-    """(bounding box, vertex set) of the closure's vertices on h = 0, as integers scaled by
-    `plane_scale`; box None: unbounded polytope, box unknown; box (): no vertex on h, so a bounded
-    polytope has no facet there.  Computed once per polytope and hyperplane."""
+    """(bounding box, vertex set, direction set) of the closure's face on h = 0: vertices as
+    integers scaled by `plane_scale`, the rays and lines lying in h as primitive integer directions
+    (a line as its two rays).  Box None: unbounded polytope, box unknown; box (): no vertex on h,
+    so a bounded polytope has no facet there.  Computed once per polytope and hyperplane."""
     scale, verts = _integer_vertices(p, names, cache)
     m = common_denominator([c for _, c in h.coeffs] + [h.const])
     w = [int(h.coeff(n) * m) for n in names]
@@ -61,10 +74,19 @@ def _facet_box(p, h: Affine, names, cache: dict, plane_scale: int):
     up = plane_scale // scale
     on = frozenset(tuple(x * up for x in v) for v in verts if sum(a * x for a, x in zip(w, v)) + c == 0)
     if not p.bounded:
-        return None, on
+        dirs = set()
+        for r in p.rays:
+            d = _primitive([r[n] for n in names])
+            if sum(a * x for a, x in zip(w, d)) == 0:
+                dirs.add(d)
+        for line in p.lines:
+            d = _primitive([line[n] for n in names], line=True)
+            if sum(a * x for a, x in zip(w, d)) == 0:
+                dirs.update((d, tuple(-x for x in d)))
+        return None, on, frozenset(dirs)
     if not on:
-        return (), on
-    return tuple((min(v[k] for v in on), max(v[k] for v in on)) for k in range(len(names))), on
+        return (), on, frozenset()
+    return tuple((min(v[k] for v in on), max(v[k] for v in on)) for k in range(len(names))), on, frozenset()
 
 
 def _apart(box_a, box_b) -> bool:
@@ -76,13 +98,12 @@ def _apart(box_a, box_b) -> bool:
     return any(max(lo_a, lo_b) > min(hi_a, hi_b) for (lo_a, hi_a), (lo_b, hi_b) in zip(box_a, box_b))
 
 
-def _affine_rank(points) -> int:
-    """Dimension of the affine hull of the points (exact Gaussian elimination)."""
-    points = list(points)
-    if not points:
-        return -1
-    rows = [[Fraction(x - y) for x, y in zip(p, points[0])] for p in points[1:]]
-    rank, col, width = 0, 0, len(points[0])
+def _rank(vectors) -> int:
+    """Rank of a list of integer vectors (exact Gaussian elimination)."""
+    rows = [[Fraction(x) for x in v] for v in vectors]
+    if not rows:
+        return 0
+    rank, col, width = 0, 0, len(rows[0])
     while rank < len(rows) and col < width:
         pivot = next((r for r in range(rank, len(rows)) if rows[r][col] != 0), None)
         if pivot is None:
@@ -97,11 +118,21 @@ def _affine_rank(points) -> int:
     return rank
 
 
-def _share_facet(a, verts_a, verts_b) -> bool:
-    """Quick exact acceptance: vertices common to both facets span a set of dimension dim(a) - 1,
-    so the closures meet in (at least) their convex hull."""
-    common = verts_a & verts_b
-    return len(common) >= a.dim and _affine_rank(common) >= a.dim - 1
+def _share_facet(a, facet_a, facet_b) -> bool:
+    """Quick exact acceptance: the vertices and the ray directions common to both faces on the
+    hyperplane generate a set of dimension dim(a) - 1 (affine hull of the common vertices plus the
+    span of the common rays), which lies in both closures: conv(common vertices) + cone(common
+    rays).  At least one common vertex is needed (the closures are pointed or carry their lines as
+    pairs of rays)."""
+    (_, verts_a, dirs_a), (_, verts_b, dirs_b) = facet_a, facet_b
+    common = sorted(verts_a & verts_b)
+    if not common:
+        return False
+    rays = sorted(dirs_a & dirs_b)
+    if len(common) + len(rays) < a.dim:
+        return False
+    base = common[0]
+    return _rank([[x - y for x, y in zip(v, base)] for v in common[1:]] + rays) >= a.dim - 1
 
 
 def _integer_atoms(p, names, cache: dict):
@@ -118,21 +149,46 @@ def _integer_atoms(p, names, cache: dict):
     return cache[key]
 
 
-def _parallel(u, w) -> bool:
-    """Are the integer vectors u and w proportional (u x w = 0 componentwise)?"""
-    k = next((i for i, x in enumerate(w) if x != 0), None)
-    if k is None:
-        return True
-    return all(x * w[k] == y * u[k] for x, y in zip(u, w))
+def _inside(p, h: Affine, facet, names, cache: dict) -> bool:
+    """Does the piece's closure lie in the plane h = 0 (every vertex on it, every ray and line in
+    it)?"""
+    _, on, _ = facet
+    _, verts = _integer_vertices(p, names, cache)
+    return len(on) == len(verts) and all(sum(h.coeff(n) * d[n] for n in names) == 0
+                                         for d in p.rays + p.lines)
 
 
-def _separated(rows, hv, scale: int, verts) -> bool:
-    """Quick exact rejection: a constraint of one piece (valid on its facet), not parallel to the
-    plane (normal hv), is <= 0 on every vertex of the other (bounded) facet, so the facets meet only
-    inside that constraint's boundary: a set of dimension below the facets' own.  `verts` are
-    integer vertices scaled by `scale`, so w.x + c <= 0 is w.X + c*scale <= 0."""
-    return bool(verts) and any(not _parallel(w, hv) and
-                               all(sum(a * x for a, x in zip(w, v)) + c * scale <= 0 for v in verts)
+def _cutting_rows(p, h: Affine, hv, names, cache: dict):
+    """The piece's constraint rows (w, c) that cut its face on h = 0 properly: w is not in the span
+    of h's normal and the normals of the piece's implicit equalities (rows vanishing on every
+    generator).  For such a row, {w.x + c = 0} meets the piece's affine hull inside h in a set of
+    dimension dim(p) - 2.  Empty when h itself does not cut the hull properly.  Once per piece and
+    plane; for a full-dimensional piece this is 'not parallel to h'."""
+    key = ("cut", id(p), h)
+    if key not in cache:
+        rows = _integer_atoms(p, names, cache)
+        scale, verts = _integer_vertices(p, names, cache)
+        dirs = [_primitive([r[n] for n in names]) for r in p.rays + p.lines]
+        hull = [w for w, c in rows
+                if all(sum(a * x for a, x in zip(w, v)) + c * scale == 0 for v in verts)
+                and all(sum(a * x for a, x in zip(w, d)) == 0 for d in dirs)]
+        base = _rank(hull) if hull else 0
+        if _rank(hull + [hv]) == base:
+            cache[key] = []
+        else:
+            cache[key] = [(w, c) for w, c in rows if _rank(hull + [hv, w]) == base + 2]
+    return cache[key]
+
+
+def _separated(rows, scale: int, facet) -> bool:
+    """Quick exact rejection: a constraint w.x + c >= 0 of one piece that cuts its face properly
+    (`_cutting_rows`) is <= 0 on the other piece's face on the plane (every vertex, and w.d <= 0 on
+    every ray; a line counts as two rays), so the two meet only inside {w.x + c = 0}: a set of
+    dimension below dim - 1.  Vertices are integers scaled by `scale`, so w.x + c <= 0 reads
+    w.X + c*scale <= 0."""
+    _, verts, dirs = facet
+    return bool(verts) and any(all(sum(a * x for a, x in zip(w, v)) + c * scale <= 0 for v in verts)
+                               and all(sum(a * x for a, x in zip(w, d)) <= 0 for d in dirs)
                                for w, c in rows)
 
 
@@ -182,10 +238,15 @@ def thresholds(regimes: Sequence, names: Sequence[str], budget=None) -> tuple[Th
             k = _integer_vertices(p, names, cache)[0]
             scale = scale * k // gcd(scale, k)
         facets = [_facet_box(p, h, names, cache, scale) for _, p, _ in owners]
+        # a piece lying inside h = 0 (h is one of its implicit equalities, e.g. the region's own
+        # alpha == beta) is not divided from anything by h: h is no threshold of it
+        keep = [k for k, (_, p, _) in enumerate(owners) if not _inside(p, h, facets[k], names, cache)]
+        if len({owners[k][0] for k in keep}) < 2:
+            continue
+        owners, facets = [owners[k] for k in keep], [facets[k] for k in keep]
         m = common_denominator([c for _, c in h.coeffs] + [h.const])
         hv = [int(h.coeff(n) * m) for n in names]
-        seps = [_integer_atoms(p, names, cache) if p.bounded and p.dim == len(names) else None
-                for _, p, _ in owners]
+        seps = [_cutting_rows(p, h, hv, names, cache) for _, p, _ in owners]
         pairs = set()
         for i, (ra, pa, sa) in enumerate(owners):
             if budget is not None:
@@ -195,13 +256,11 @@ def thresholds(regimes: Sequence, names: Sequence[str], budget=None) -> tuple[Th
                 key = (min(ra, rb), max(ra, rb))
                 if ra == rb or key in pairs or not (sa != sb or pa.dim < len(names)):
                     continue
-                (box_a, verts_a), (box_b, verts_b) = facets[i], facets[j]
-                if _apart(box_a, box_b):
+                if _apart(facets[i][0], facets[j][0]):
                     continue
-                if seps[i] is not None and seps[j] is not None and \
-                        (_separated(seps[i], hv, scale, verts_b) or _separated(seps[j], hv, scale, verts_a)):
+                if _separated(seps[i], scale, facets[j]) or _separated(seps[j], scale, facets[i]):
                     continue
-                if _share_facet(pa, verts_a, verts_b) or _adjacent(pa, pb, h, names):
+                if _share_facet(pa, facets[i], facets[j]) or _adjacent(pa, pb, h, names):
                     pairs.add(key)
         if pairs:
             out.append(Threshold(h, equation_text(h), tuple(sorted(pairs))))
