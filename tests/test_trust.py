@@ -230,9 +230,11 @@ def test_bundle_obligations_are_answered_the_same_by_z3_reading_smtlib(tmp_path,
         assert solver.check() == z3.unsat, f.name
 
 
-def test_a_wrong_certificate_from_the_engine_is_caught_and_never_proves(monkeypatch):
+@pytest.mark.parametrize("workers", [1, 2])
+def test_a_wrong_certificate_from_the_engine_is_caught_and_never_proves(monkeypatch, workers):
     # Simulate an engine defect: every cell certificate gets a wrong Farkas constant.  The region-wise
-    # method must then say unknown (loudly), whichever checker looks at it.
+    # method must then say unknown (loudly), whichever checker looks at it, also when the workers
+    # check the cells in slices (workers=2; the pool is forked after the patch).
     from dataclasses import replace
     import verifier.regimes.work as work
     from verifier.geometry.farkas import Farkas
@@ -244,6 +246,6 @@ def test_a_wrong_certificate_from_the_engine_is_caught_and_never_proves(monkeypa
                                                                     for f in cert.farkas))
     monkeypatch.setattr(work, "certify", broken)
     claim = relation(W, "<=", 1, parse_region("alpha >= 0"))
-    proof = prove_by_regimes(claim, smt="none")
+    proof = prove_by_regimes(claim, smt="none", workers=workers)
     assert proof.status == UNKNOWN and "CERTIFICATE CHECK FAILED" in proof.detail
     assert prove_by_regimes(claim).status == PROVED      # the one-shot query still proves it (rule 3)

@@ -27,6 +27,7 @@ vacuously (also left to SMT, which sees no witness).
 
 from __future__ import annotations
 
+import json
 import time
 from concurrent.futures import ProcessPoolExecutor
 from dataclasses import dataclass, field
@@ -44,12 +45,14 @@ from verifier.regimes.analysis import Gap, PartReport, max_gap, part_reports
 from verifier.regimes.certificates import check_certificate
 from verifier.regimes.decompose import decompose, disjoint_pieces
 from verifier.regimes.decompose import worker_setup as regimes_worker_setup
+from verifier.regimes.export import export_proof
 from verifier.regimes.failure import FailureRegion, failure_region
 from verifier.regimes.polytope import cell_polytope, convex_union, nice, region_is_convex
 from verifier.regimes.spec import spec_of, targets
 from verifier.regimes.thresholds import Threshold, thresholds
 from verifier.regimes.witness import counterexamples
 from verifier.regimes.work import PROVED, REFUTED, UNKNOWN, Regime, assemble, finish_cell
+from verifier.standalone import check_certificates as checker
 
 
 @dataclass(frozen=True)
@@ -180,6 +183,9 @@ def prove_by_regimes(claim: Claim, solver: str = "z3", timeout: float = 30.0, cr
         clock["decompose"] = time.perf_counter()
         regimes = _regimes(spec, cells, tgts, pieces, pool, budget)
         budget.check("regime grouping")
+        clock["regimes"] = time.perf_counter()
+        return _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, workers, budget,
+                         improve_witness, pool)
     except OutOfBudget as exc:
         if pool is not None:
             pool.shutdown(wait=True, cancel_futures=True)
@@ -188,9 +194,6 @@ def prove_by_regimes(claim: Claim, solver: str = "z3", timeout: float = 30.0, cr
     finally:
         if pool is not None:
             pool.shutdown()
-    clock["regimes"] = time.perf_counter()
-    return _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, workers, budget,
-                     improve_witness)
 
 
 def _without_regimes(claim, spec, verdict, exc, clock, solver, budget, workers, improve_witness):
@@ -224,9 +227,14 @@ def _analyse(budget, notes, stage, default, work):
         return default
 
 
-def _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, workers, budget, improve_witness):
+def _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, workers, budget, improve_witness,
+              pool=None):
     notes: list[str] = []
     compare = spec.kind == "compare"
+    status, method, detail = _regime_status(spec, regimes, pieces)
+    # the independent check of a proved claim runs in the workers while this process analyses
+    check_done = _independent_check(claim, spec, regimes, pool, workers) \
+        if status == PROVED and method == "regimes" else None
     ths = _analyse(budget, notes, "thresholds", (), lambda: thresholds(regimes, spec.names, budget))
     fails = [p for r in regimes for p in r.failures]
     failure = _analyse(budget, notes, "failure region", None,
@@ -241,12 +249,11 @@ def _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, worke
         notes.append(f"counterexample ranking incomplete: {exc}")
         cexs = counterexamples(claim, spec, regimes, solver, budget, improve=False)
     clock["analysis"] = time.perf_counter()
-    status, method, detail = _regime_status(spec, regimes, pieces)
     if status == REFUTED and not cexs:
         status, detail = UNKNOWN, "regimes fail but no failing point re-checks exactly: an engine defect"
     checked = None
-    if status == PROVED and method == "regimes":
-        checked, why = _independent_check(claim, spec, regimes)
+    if check_done is not None:
+        checked, why = check_done()
         if checked is False:
             status, detail = UNKNOWN, "; ".join(x for x in (detail, why) if x)
     if checked is None:       # not re-checked as a whole: check each certificate here
@@ -281,26 +288,44 @@ def _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, worke
                        parts, gaps, verdict, agree, detail, timing, len(cells), workers, checked)
 
 
-def _independent_check(claim, spec, regimes):
-    """(True, '') when the standalone checker (standard library only, a second implementation)
-    accepts the exported certificates and the coverage of the region by the cells; (None, reason)
-    when the proof is not fully certified (some cell decided by SMT, a monotone claim over several
-    polyhedra); (False, reason) when the checker rejects a proof we built: an engine defect, and the
-    region-wise method then says unknown."""
-    import json
-    from verifier.regimes.export import export_proof
-    from verifier.standalone.check_certificates import Bad, check
+def _independent_check(claim, spec, regimes, pool=None, workers=1):
+    """Start the standalone checker (standard library only, a second implementation) on the
+    exported certificates and the coverage of the region by the cells; returns `done()`, which
+    gives (True, '') when it accepts, (None, reason) when the proof is not fully certified (some
+    cell decided by SMT, a monotone claim over several polyhedra), (False, reason) when the checker
+    rejects a proof we built: an engine defect, and the region-wise method then says unknown.
+    With a pool the cells are checked in slices by the workers meanwhile; the coverage is checked
+    in `done()`."""
     provisional = RegimeProof(claim, PROVED, "regimes", spec.names, spec.labels, regimes, (), None, (),
                               (), (), None, None)
     data = export_proof(provisional)
     if not data["complete"]:
-        return None, data["incomplete"]
-    try:
-        check(json.loads(json.dumps(data)))   # exactly what a bundle's reader gets
-    except Bad as exc:
+        return lambda: (None, data["incomplete"])
+
+    def rejected(exc):
         return False, (f"CERTIFICATE CHECK FAILED: the independent checker rejects the region-wise proof "
                        f"({exc}); an engine defect, please report it")
-    return True, ""
+    try:
+        read = checker.read(json.loads(json.dumps(data)))   # exactly what a bundle's reader gets
+    except checker.Bad as exc:
+        verdict = rejected(exc)
+        return lambda: verdict
+    claim_data, region, cells, trees = read
+    jobs = None
+    if pool is not None:
+        size = max(1, -(-len(cells) // (2 * workers)))
+        jobs = [pool.submit(checker.check_cells, claim_data, cells[i:i + size], i)
+                for i in range(0, len(cells), size)]
+
+    def done():
+        try:
+            atoms = checker.check_cells(claim_data, cells) if jobs is None else \
+                [a for job in jobs for a in job.result()]
+            checker.covered(claim_data, region, atoms, trees)
+        except checker.Bad as exc:
+            return rejected(exc)
+        return True, ""
+    return done
 
 
 STAGES = ("smt", "decompose", "regimes", "analysis", "certificates")

@@ -243,8 +243,8 @@ def check_cell(claim, cell):
     return cons
 
 
-def check(data):
-    """The statement proved by this certificate (as text), or Bad."""
+def read(data):
+    """(claim, region, cells, coverage trees) of an export, its envelope checked; or Bad."""
     need(isinstance(data, dict) and data.get("format") == FORMAT and data.get("version") == VERSION,
          f"not a {FORMAT} version {VERSION} file")
     need(data.get("complete") is True, f"the export is incomplete: {str(data.get('incomplete'))[:300]}")
@@ -256,17 +256,34 @@ def check(data):
          "a monotone claim needs the region to be one polyhedron (convex)")
     cells = data.get("cells")
     need(isinstance(cells, list) and cells, "no cells")
-    cell_atoms = []
-    for n, cell in enumerate(cells):
-        try:
-            cell_atoms.append(check_cell(claim, cell))
-        except Bad as exc:
-            raise Bad(f"cell {n}: {exc}") from None
     trees = data.get("coverage")
     need(isinstance(trees, list) and len(trees) == len(region), "one coverage tree per region piece needed")
+    return claim, region, cells, trees
+
+
+def check_cells(claim, cells, first=0):
+    """Each cell's constraints, once its certificate is checked; cells are numbered from `first`
+    (so that a caller may check slices of the list separately, e.g. in parallel)."""
+    out = []
+    for n, cell in enumerate(cells, first):
+        try:
+            out.append(check_cell(claim, cell))
+        except Bad as exc:
+            raise Bad(f"cell {n}: {exc}") from None
+    return out
+
+
+def covered(claim, region, cell_atoms, trees):
+    """The statement proved, once the coverage trees show that the checked cells cover the region."""
     for k, tree in enumerate(trees):
         cover(k, region, cell_atoms, tree)
-    return statement(claim, region), len(cells)
+    return statement(claim, region), len(cell_atoms)
+
+
+def check(data):
+    """The statement proved by this certificate (as text) and the number of cells, or Bad."""
+    claim, region, cells, trees = read(data)
+    return covered(claim, region, check_cells(claim, cells), trees)
 
 
 # --- the statement as checked, rebuilt from the data ---------------------------------------------
