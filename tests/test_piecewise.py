@@ -41,6 +41,17 @@ def test_jump_at_a_wrong_threshold_has_no_min_max_form():
     rows = [("1 - alpha", "alpha <= 3/5"), ("alpha", "alpha >= 3/5")]   # jumps at 3/5
     result = check_piecewise("bad", pieces(rows), DOMAIN)
     assert result.expr is None and "jumps" in result.detail
+    # the message names the exact place and both values (hand-derived: 1 - 3/5 = 2/5 against 3/5)
+    assert "the function jumps at alpha = 3/5: regime 'alpha <= 3/5' gives 2/5, " \
+           "regime 'alpha >= 3/5' gives 3/5" in result.detail
+
+
+def test_regimes_that_disagree_on_an_overlap_are_named_with_a_point():
+    rows = [("alpha", "alpha <= 1"), ("1", "alpha >= 1/2")]     # overlap [1/2, 1]: alpha != 1 there
+    result = check_piecewise("bad", pieces(rows), DOMAIN)
+    assert result.expr is None and "disagree on their overlap at alpha = " in result.detail
+    at = F(result.detail.split("alpha = ")[1].split(":")[0])
+    assert F(1, 2) <= at < 1
 
 
 CASE = """

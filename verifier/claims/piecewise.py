@@ -21,7 +21,7 @@ from fractions import Fraction
 from typing import Mapping, Sequence
 
 from verifier.core.errors import InputError
-from verifier.expressions.expr import Affine, Expr, max_, min_, to_text
+from verifier.expressions.expr import Affine, Expr, evaluate, format_number, max_, min_, to_text
 from verifier.expressions.region import Region
 from verifier.solvers.smt import Query, check
 
@@ -99,10 +99,37 @@ def to_min_max(name: str, pieces: Sequence[Piece], domain: Region, solver="z3", 
             raise FormUndecided(f"'{name}': the solver could not confirm that the regimes form one "
                                 f"continuous function ({status.detail})")
         if status.status == "sat":
-            raise InputError(f"'{name}': the regimes disagree on an overlap or the function jumps at a "
-                             f"regime boundary: regime '{p.where.text()}' (its formula differs from the "
-                             "other regimes' values there)")
+            raise InputError(f"'{name}': " + (_where_it_breaks(live, domain, solver, timeout) or
+                             f"the regimes disagree on an overlap or the function jumps at a regime "
+                             f"boundary: regime '{p.where.text()}' (its formula differs from the other "
+                             "regimes' values there)"))
     return candidate
+
+
+def _where_it_breaks(pieces: Sequence[Piece], domain: Region, solver, timeout) -> str:
+    """An exact point where two regimes' formulas differ: first inside both regimes' interiors (they
+    disagree on an overlap), else on their common boundary (the function jumps), with both values,
+    re-checked with Fractions; '' when no pair shows one (the caller's general message stands)."""
+    for what, shape in (("the regimes disagree on their overlap", lambda r: r.relative_interior()),
+                        ("the function jumps", lambda r: r.closure())):
+        for i, first in enumerate(pieces):
+            for second in pieces[i + 1:]:
+                meet = domain.meet(shape(first.where)).meet(shape(second.where))
+                answer = check(Query(meet, ((first.formula, "!=", second.formula),)), solver,
+                               _seconds(timeout))
+                if answer.status != "sat" or answer.model is None:
+                    continue
+                point = {n: Fraction(v) for n, v in answer.model.items()}
+                try:
+                    a, b = evaluate(first.formula, point), evaluate(second.formula, point)
+                except (KeyError, InputError):
+                    continue
+                if a == b or not meet.contains(point):
+                    continue
+                where = ", ".join(f"{n} = {format_number(v)}" for n, v in sorted(point.items()))
+                return (f"{what} at {where}: regime '{first.where.text()}' gives {format_number(a)}, "
+                        f"regime '{second.where.text()}' gives {format_number(b)}")
+    return ""
 
 
 def check_piecewise(name: str, pieces: Sequence[Piece], domain: Region, solver="z3",
