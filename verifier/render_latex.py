@@ -102,7 +102,7 @@ LATEX_RELS = {"<": "<", "<=": r"\le", "==": "=", ">=": r"\ge", ">": ">"}
 def condition_latex(atoms) -> str:
     """Constraints with one-parameter bounds chained: 1/2 <= alpha < 2/3 in LaTeX."""
     notation = Notation(name=name_latex, number=number_latex, rel=LATEX_RELS.get, atom=atom_latex,
-                        joiner=",\\ ", everywhere=r"\text{everywhere}")
+                        joiner=",\\ ", everywhere=r"\text{everywhere}", affine=affine_latex)
     return constraint_text(atoms, notation, reorder=True)
 
 

@@ -34,7 +34,7 @@ from fractions import Fraction
 from pathlib import Path
 
 from verifier import claims as C
-from verifier.errors import CaseFileError, InputError
+from verifier.errors import CaseFileError, InputError, ParseError, UnknownNameError
 from verifier.expr import Expr, const, max_, min_, param, params, substitute
 from verifier.latex_in import parse_latex_expr, parse_latex_region
 from verifier.lexer import KEYWORDS, MAX_LITERAL_DIGITS
@@ -544,6 +544,8 @@ def _claim(rd: _Reader, index: int, spec, case: Case) -> CaseClaim:
         found = f"'{expect}'" if isinstance(expect, str) else kind_of(expect)
         raise rd.fail(f"{key}.expect", f"expected one of {', '.join(VERDICTS)}, found {found}")
     claim = _make_claim(rd, s, text, f"{key}.statement", region, name, case)
+    if claim.subst:   # the slice itself may miss the region: that is a typo too
+        _check_nonempty(rd, [("claims", index), ("statement", None)], claim.region)
     result = CaseClaim(claim, text, expect, key)
     _check_split(rd, f"{key}.statement", claim, case)
     try:
@@ -578,7 +580,54 @@ def _parameter_of_sentence(rd: _Reader, key: str, name: str, case: Case) -> None
                            + (f"; {close})" if close else ")"))
 
 
+def _assigned(rd, items, text, key, case) -> dict:
+    """{name: value} of `p = e, ...` (a parameter, and an expression of the parameters only); the
+    engine (verifier.slices) refuses what is not a slice, and the error points at the item."""
+    out = {}
+    for name, part in items:
+        if name not in case.parameters:
+            close = did_you_mean(name, case.parameters).strip(" ()")
+            err = UnknownNameError(f"unknown parameter '{name}' (parameters: {listing(case.parameters)}"
+                                   + (f"; {close})" if close else ")"), text, _name_start(text, part))
+            raise rd.fail(key, err, text)
+        if name in out:
+            raise rd.fail(key, ParseError(f"'{name}' is given a value twice", text, _name_start(text, part)),
+                          text)
+        try:
+            out[name] = parse_expr(part.text, list(case.parameters))
+        except InputError as err:
+            err = explained(err, _explain_bound(case, "a substituted value"))
+            raise rd.fail(key, shifted(err, part, text), text) from None
+    return out
+
+
+def _name_start(text: str, value: Part) -> int:
+    """Where `name` of `name = value` starts: the word before the `=` preceding the value."""
+    eq = text.rfind("=", 0, value.start)
+    m = re.search(r"([A-Za-z_][A-Za-z0-9_]*)\s*$", text[:eq])
+    return m.start(1) if m else eq
+
+
+def _sliced(rd, make, items, text, key):
+    """make() with a SliceError (a refused substitution) pointed at the item it names."""
+    from verifier.slices import SliceError
+    try:
+        return make()
+    except SliceError as err:
+        part = next((p for n, p in items if n == err.name), None)
+        pos = _name_start(text, part) if part is not None else None
+        raise rd.fail(key, ParseError(err.message, text, pos), text) from None
+
+
 def _make_claim(rd, s, text, key, region, name, case) -> C.Claim:
+    claim = _make_plain_claim(rd, s, text, key, region, name, case)
+    if not s.subst:
+        return claim
+    mapping = _assigned(rd, s.subst, text, key, case)
+    return _sliced(rd, lambda: C.on_slice(claim, mapping), s.subst, text, key)
+
+
+def _make_plain_claim(rd, s, text, key, region, name, case) -> C.Claim:
     lhs = _side(rd, s.lhs, text, key, case)
     for p in (s.param,) + s.swap:
         if p:
@@ -593,10 +642,9 @@ def _make_claim(rd, s, text, key, region, name, case) -> C.Claim:
             return C.monotone(lhs, s.param, region, s.increasing, name)
         if s.kind == "symmetric":
             return C.symmetric(lhs, s.swap[0], s.swap[1], region, name)
-        for n, _ in s.values:
-            _parameter_of_sentence(rd, key, n, case)
-        values = {n: _side(rd, v, text, key, case).expr for n, v in s.values}
-        return C.reduces_to(lhs, values, _side(rd, s.rhs, text, key, case), region, name)
+        values = _assigned(rd, s.values, text, key, case)
+        rhs = _side(rd, s.rhs, text, key, case)
+        return _sliced(rd, lambda: C.reduces_to(lhs, values, rhs, region, name), s.values, text, key)
     except CaseFileError:
         raise
     except InputError as err:

@@ -23,7 +23,7 @@ matplotlib.use("Agg")
 from matplotlib.figure import Figure  # noqa: E402
 from matplotlib.patches import Polygon  # noqa: E402
 
-from verifier.claims import compared_exprs, witness_region  # noqa: E402
+from verifier.claims import compared_exprs, own_region, witness_region  # noqa: E402
 from verifier.errors import InputError  # noqa: E402
 from verifier.expr import evaluate, substitute  # noqa: E402
 from verifier.regime_spec import spec_of  # noqa: E402
@@ -44,7 +44,7 @@ def _curves(section):
     """(exprs, labels, region, named parts) of what a slice draws."""
     claim = section.claim
     if claim.kind == "monotone":
-        return (claim.lhs.expr,), (section.labels[0],), claim.region, spec_of(claim).parts
+        return compared_exprs(claim)[:1], (section.labels[0],), own_region(claim), spec_of(claim).parts
     return compared_exprs(claim), section.labels, witness_region(claim), spec_of(claim).parts
 
 
