@@ -59,7 +59,10 @@ def summary_lines(section: ClaimReport) -> list[str]:
         lines.append("Counterexamples (best first):")
         lines += counterexample_lines(section)
     if section.redundant:
-        lines.append("Redundant bounds: " + ", ".join(f"{p.name} ({p.note})" for p in section.redundant))
+        names = [p.name for p in section.parts]   # a name on both sides (two versions): say whose
+        lines.append("Redundant bounds: " + ", ".join(
+            (f"{section.labels[p.side]}: " if names.count(p.name) > 1 and p.side < len(section.labels) else "")
+            + f"{p.name} ({p.note})" for p in section.redundant))
     lines += [gap_text(g) for g in section.gaps]
     return lines
 

@@ -6,6 +6,7 @@ A case file is TOML in a layout of our own:
     [parameters]             name = "meaning"   (the only names expressions may use)
     [assume]                 region = "alpha >= 0"          (the standing assumption)
     [outer]                  named outer bounds; `outer` in a claim means their min
+    [outer.NAME]             a version of the converse (workbench.versions): `NAME` in a claim
     [inner]                  named inner bounds / schemes; `inner` means their max
     [formulas]               named formulas (conjectures, published curves)
     [[claims]]               statement = "inner == outer", where = "...", name = "...", expect = "proved"
@@ -44,6 +45,7 @@ from verifier.parse import parse_expr, parse_region
 from verifier.piecewise import Piece, PiecewiseCheck, check_piecewise
 from verifier.region import Region
 
+from . import versions
 from .expansion import expand
 from .output_target import shown_path
 from .statements import Part, did_you_mean, explained, listing, parse_sentence, shifted
@@ -85,6 +87,7 @@ class Case:
     inner: dict[str, Expr]
     formulas: dict[str, Expr]
     claims: list[CaseClaim]
+    versions: dict = field(default_factory=dict)     # name -> (kind, {bound: Expr}): workbench.versions
     regime_checks: list[PiecewiseCheck] = field(default_factory=list)
     piecewise: dict = field(default_factory=dict)    # name -> PiecewiseCheck (pieces + min/max form)
     raw: dict = field(default_factory=dict)
@@ -96,18 +99,28 @@ class Case:
         Values may still mention regime-wise names (as placeholders); see workbench.expansion.
         """
         out = dict(self.outer) | dict(self.inner) | dict(self.formulas)
-        if self.outer:
+        versioned = {kind for kind, _ in self.versions.values()}
+        if self.outer and "outer" not in versioned:
             out["outer"] = min_(*(param(n) for n in self.outer))
-        if self.inner:
+        if self.inner and "inner" not in versioned:
             out["inner"] = max_(*(param(n) for n in self.inner))
+        for name, (kind, own) in self.versions.items():
+            shared = self.outer if kind == "outer" else self.inner
+            out[name] = versions.combine(kind, [param(n) for n in shared] + list(own.values()))
         return out
+
+    def version_parts(self, name: str) -> tuple[tuple[str, Expr], ...]:
+        """A version's named bounds (the shared ones first), resolved: the parts of its side."""
+        kind, own = self.versions[name]
+        shared = self.outer if kind == "outer" else self.inner
+        return tuple((n, self.resolve(e)) for n, e in shared.items()) + tuple(own.items())
 
     def resolve(self, expr: Expr) -> Expr:
         """Substitute names until only parameters and regime-wise placeholders remain.
 
         The table of names is built once per state of the case (not per call: a [network] with
         thousands of cut bounds resolves each of them)."""
-        state = (len(self.outer), len(self.inner), len(self.formulas), len(self.piecewise))
+        state = (len(self.outer), len(self.inner), len(self.formulas), len(self.piecewise), len(self.versions))
         if not self._resolving or self._resolving[0] != state:
             named = {k: v for k, v in self.named().items() if k not in self.piecewise}
             self._resolving = (state, named, frozenset(named))
@@ -362,7 +375,8 @@ def _parameters_only(params, what: str):
 
 
 def _check_new_name(rd: _Reader, key: str, name: str, case: Case) -> None:
-    taken = set(case.parameters) | RESERVED | set(case.outer) | set(case.inner) | set(case.formulas)
+    taken = set(case.parameters) | RESERVED | set(case.outer) | set(case.inner) | set(case.formulas) | \
+        set(case.versions)
     if not NAME_RE.fullmatch(name) or name in NOT_NAMES:
         raise rd.fail(key, f"'{shown_path(name)}' is not a valid name (a letter or _, then letters, "
                            "digits or _; not a word of the grammar)")
@@ -373,6 +387,7 @@ def _check_new_name(rd: _Reader, key: str, name: str, case: Case) -> None:
 def _bounds(rd: _Reader, table: dict, kind: str, case: Case, solver, timeout, budget=None) -> None:
     target = case.outer if kind == "outer" else case.inner
     explain = _explain_bound(case)
+    table, own_tables = versions.split(kind, table, rd.text)
     for name, value in table.items():
         key = f"{kind}.{name}"
         _check_new_name(rd, key, name, case)
@@ -381,6 +396,32 @@ def _bounds(rd: _Reader, table: dict, kind: str, case: Case, solver, timeout, bu
             target[name] = param(name)
         else:
             target[name] = rd.expr(key, value, list(case.parameters), explain)
+    for version, own in own_tables.items():
+        _version(rd, kind, version, own, case)
+
+
+def _version(rd: _Reader, kind: str, version: str, table: dict, case: Case) -> None:
+    """One `[outer.NAME]` table: a version of the converse (workbench.versions)."""
+    key = f"{kind}.{version}"
+    _check_new_name(rd, key, version, case)
+    if not table:
+        raise rd.fail(key, f"the version '{version}' has no bounds{rd.key_line([(kind, None), (version, None)])}")
+    shared = case.outer if kind == "outer" else case.inner
+    explain = _explain_bound(case)
+    own = {}
+    for name, value in table.items():
+        bkey = f"{key}.{name}"
+        if not NAME_RE.fullmatch(name) or name in NOT_NAMES or name in RESERVED:
+            raise rd.fail(bkey, f"'{shown_path(name)}' is not a valid name (a letter or _, then letters, "
+                                "digits or _; not a word of the grammar)")
+        if name in case.parameters or name in shared:
+            what = "a parameter" if name in case.parameters else f"a bound shared by every version ([{kind}])"
+            raise rd.fail(bkey, f"the name '{name}' is already {what}")
+        if versions.is_regime_wise(value):
+            raise rd.fail(bkey, f"a version's own bound cannot be given regime by regime; put it in [{kind}] "
+                                "(shared by every version) or write it with min/max")
+        own[name] = rd.expr(bkey, value, list(case.parameters), explain)
+    case.versions[version] = (kind, own)
 
 
 def _explain_bound(case: Case, what: str = "a bound"):
@@ -489,6 +530,10 @@ def _network_bounds(rd: _Reader, data: dict, case: Case) -> None:
 
 def _explain_claim_name(name: str, case: Case) -> str:
     """Why a claim cannot use `name`: a missing [outer]/[inner], or a typo among the names it has."""
+    held = [v for v, (kind, _) in case.versions.items() if kind == name]
+    if name in RESERVED and held:
+        return (f"'{name}' has versions ({listing(held)}): name the one the claim is about, "
+                f"e.g. '{held[-1]} <= {held[0]}'")
     if name in RESERVED:
         if isinstance(case.raw.get(name), dict):
             return f"'{name}' is used but the [{name}] table of the case file is empty"
@@ -515,6 +560,8 @@ def _side(rd: _Reader, part: Part, full: str, key: str, case: Case) -> C.Side:
         parts = tuple((n, case.resolve(e)) for n, e in case.outer.items())
     elif part.text == "inner":
         parts = tuple((n, case.resolve(e)) for n, e in case.inner.items())
+    elif part.text in case.versions:
+        parts = case.version_parts(part.text)
     return C.Side(case.resolve(expr), label, parts)
 
 
