@@ -39,6 +39,7 @@ from .certificates import check_certificate
 from .claims import Claim, witness_of
 from .errors import RegionError
 from .failure import FailureRegion, failure_region
+from .optimality import optimality_region
 from .lp_shape import reduce_modulo
 from .prove import Verdict, prove
 from .regime_geometry import cell_polytope, convex_union, nice, region_is_convex
@@ -74,6 +75,7 @@ class RegimeProof:
     cells: int = 0
     workers: int = 1
     checked: bool | None = None          # the standalone checker re-verified certificates + coverage
+    optimality: object = None            # verifier.optimality.OptimalityRegion: where it holds / fails
 
     @property
     def certified(self) -> bool:
@@ -240,6 +242,10 @@ def _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, worke
     except OutOfBudget as exc:
         notes.append(f"counterexample ranking incomplete: {exc}")
         cexs = counterexamples(claim, spec, regimes, solver, budget, improve=False)
+    optimal = _analyse(budget, notes, "optimality region", (None, ""),
+                       lambda: optimality_region(claim, spec, regimes, pieces, budget)) if compare else (None, "")
+    if optimal[1]:
+        notes.append(optimal[1])
     clock["analysis"] = time.perf_counter()
     status, method, detail = _regime_status(spec, regimes, pieces)
     if status == REFUTED and not cexs:
@@ -278,7 +284,8 @@ def _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, worke
     clock.setdefault("smt", clock["analysis"])
     timing = _timing(clock)
     return RegimeProof(claim, status, method, spec.names, spec.labels, regimes, ths, failure, cexs,
-                       parts, gaps, verdict, agree, detail, timing, len(cells), workers, checked)
+                       parts, gaps, verdict, agree, detail, timing, len(cells), workers, checked,
+                       optimal[0] if status in (PROVED, REFUTED) else None)
 
 
 def _independent_check(claim, spec, regimes):

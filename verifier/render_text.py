@@ -7,6 +7,7 @@ referee reports, and `grep` on a verdict must work.
 from __future__ import annotations
 
 from .expr import to_text
+from .optimality import sentences
 from .verdicts import tally_sentence
 from .report import ClaimEntry, ClaimReport, Report, count, failure_share_text, gap_text, num, point_text, solver_text
 
@@ -55,6 +56,7 @@ def summary_lines(section: ClaimReport) -> list[str]:
     if f is not None and f.pieces:
         lines.append(f"Fails on {count(len(f.pieces), 'piece')}; {failure_share_text(f)}:")
         lines += [f"  regime {p.regime}: {p.polyhedron.text()} (dimension {p.dim})" for p in f.pieces]
+    lines += optimality_lines(section)
     if section.counterexamples:
         lines.append("Counterexamples (best first):")
         lines += counterexample_lines(section)
@@ -65,6 +67,16 @@ def summary_lines(section: ClaimReport) -> list[str]:
             + f"{p.name} ({p.note})" for p in section.redundant))
     lines += [gap_text(g) for g in section.gaps]
     return lines
+
+
+def optimality_lines(section: ClaimReport) -> list[str]:
+    """Where a refuted comparison holds and where it fails, exactly (verifier.optimality)."""
+    op = section.optimality
+    if op is None or not op.fails:
+        return []
+    holds, fails, within = sentences(op)
+    return [f"Holds exactly when: {holds}" + (f"   (within {within})" if within else ""),
+            f"Fails exactly when: {fails}"]
 
 
 def section_lines(section: ClaimReport, heading: str = "") -> list[str]:
