@@ -220,3 +220,11 @@ def test_bad_substitutions_are_input_errors(tmp_path, capsys, statement, message
     assert len(lines) == 1 and "Traceback" not in err
     import re
     assert re.search(message, lines[0]), lines[0]
+
+
+def test_the_pytest_helper_reads_the_slice_too():
+    # hand derivation: min(alpha, beta) = alpha on beta = alpha + 1; on beta = alpha/2 it is alpha/2
+    from workbench.assertions import assert_claim
+    assert_claim("min(alpha, beta) == alpha with beta = alpha + 1", where="alpha >= 0")
+    with pytest.raises(AssertionError, match="beta == alpha/2"):
+        assert_claim("min(alpha, beta) == alpha with beta = alpha/2", where="alpha >= 0")
