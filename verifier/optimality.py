@@ -60,6 +60,7 @@ class OptimalityRegion:
     fails: tuple[tuple[Atom, ...], ...]
     holds_points: tuple[dict, ...]
     fails_points: tuple[dict, ...]
+    substituted: tuple = ()        # a slice claim's (name, expression): the sets live on that slice
 
     @property
     def everywhere(self) -> bool:
@@ -344,7 +345,7 @@ def optimality_region(claim: Claim, spec: Spec, regimes, region_pieces, budget: 
     except NotExact as exc:
         return None, f"exact holds/fails sets not shown: {exc}"
     return OptimalityRegion(names, ordered(within, names) if within is not None else None,
-                            tuple(holds), tuple(fails), hp, fp), ""
+                            tuple(holds), tuple(fails), hp, fp, tuple(claim.subst)), ""
 
 
 def contains(pieces, within, point) -> bool:
@@ -373,4 +374,10 @@ def _is_chain(p) -> bool:
 def sentences(op: OptimalityRegion, notation: Notation = TEXT, joiner: str = " or ") -> tuple[str, str, str]:
     """(holds, fails, within) as text in the notation: what the renderers print."""
     within = constraint_text(op.within, notation, reorder=True) if op.within else ""
+    if op.substituted:   # the equalities of the slice, printed as the region prints them
+        from .expr import param
+        from .region import atoms_of
+        eqs = [a for n, e in op.substituted for a in atoms_of(param(n), "==", e)]
+        on = constraint_text(eqs, notation)
+        within = f"{within}{notation.joiner}{on}" if within else on
     return (union_text(op.holds, notation, joiner), union_text(op.fails, notation, joiner), within)

@@ -80,7 +80,8 @@ def exact_sets_json(op) -> dict | None:
             "fails": [polyhedron_json(Polyhedron(p)) for p in op.fails],
             "holds_points": [point_json(x) for x in op.holds_points],
             "fails_points": [point_json(x) for x in op.fails_points],
-            "holds_text": holds, "fails_text": fails}
+            "holds_text": holds, "fails_text": fails,
+            "slice": {n: to_text(e) for n, e in op.substituted}}
 
 
 def section_json(s: ClaimReport) -> dict:
