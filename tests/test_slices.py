@@ -228,3 +228,52 @@ def test_the_pytest_helper_reads_the_slice_too():
     assert_claim("min(alpha, beta) == alpha with beta = alpha + 1", where="alpha >= 0")
     with pytest.raises(AssertionError, match="beta == alpha/2"):
         assert_claim("min(alpha, beta) == alpha with beta = alpha/2", where="alpha >= 0")
+
+
+# --- the property: a slice claim is the claim with the substitution done by hand ----------------
+
+from hypothesis import given, strategies as st  # noqa: E402
+
+SLICE_BOX = "0 <= alpha <= 2, 0 <= beta <= 2, 0 <= gamma <= 2"
+
+
+def _terms():
+    return st.lists(st.tuples(st.integers(-2, 2), st.integers(-2, 2), st.integers(-2, 2), st.integers(-3, 3)),
+                    min_size=1, max_size=3)
+
+
+def _build(kind, ts):
+    exprs = [x * a + y * b + z * c + F(k, 2) for x, y, z, k in ts]
+    return (min_ if kind == "min" else max_)(*exprs)
+
+
+def _direct(kind, ts, p):
+    values = [x * p["alpha"] + y * p["beta"] + z * p["gamma"] + F(k, 2) for x, y, z, k in ts]
+    return min(values) if kind == "min" else max(values)
+
+
+@given(st.sampled_from(["min", "max"]), _terms(), st.sampled_from(["==", "<=", "<"]),
+       st.sampled_from(["min", "max"]), _terms(),
+       st.tuples(st.integers(-1, 1), st.integers(-1, 1), st.integers(0, 2)))
+def test_slice_claims_agree_with_substituting_by_hand(lk, lt, rel, rk, rt, sub):
+    from verifier.expr import substitute
+    x, z, k = sub
+    value = x * a + z * c + F(k, 2)
+    region = parse_region(SLICE_BOX)
+    sliced = on_slice(relation(_build(lk, lt), rel, _build(rk, rt), region), {"beta": value})
+    by_hand = relation(substitute(_build(lk, lt), {"beta": value}), rel, substitute(_build(rk, rt), {"beta": value}),
+                       region.substitute({"beta": value}))
+    try:
+        v1 = prove(sliced, improve_witness=False)
+    except InputError:          # an empty slice of the box: by hand it is empty too
+        with pytest.raises(InputError):
+            prove(by_hand)
+        return
+    v2 = prove(by_hand, improve_witness=False)
+    assert v1.status == v2.status
+    holds = {"==": lambda u, w: u == w, "<=": lambda u, w: u <= w, "<": lambda u, w: u < w}[rel]
+    if v1.status == "refuted":   # re-checked here: on the slice, in the box, violating
+        p = dict(v1.counterexample.point)
+        assert p["beta"] == x * p["alpha"] + z * p["gamma"] + F(k, 2)
+        assert all(0 <= p[n] <= 2 for n in ("alpha", "beta", "gamma"))
+        assert not holds(_direct(lk, lt, p), _direct(rk, rt, p))
