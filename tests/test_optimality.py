@@ -12,11 +12,11 @@ from hypothesis import given
 from hypothesis import strategies as st
 
 from verifier.claims import relation
-from verifier.expr import affine, max_, min_, param
+from verifier.expr import max_, min_, param
 from verifier.optimality import contains, normalised_atom, ordered, union_if_convex, union_text
 from verifier.parse import parse_region
 from verifier.regime_proof import prove_by_regimes
-from verifier.region import Atom, atoms_of, constraint_text
+from verifier.region import constraint_text
 from workbench.cli import main
 
 a, g = param("alpha"), param("gamma")

@@ -101,7 +101,7 @@ def _is_lower(atom: Atom) -> bool:
 
 def ordered(atoms: Sequence[Atom], names: Sequence[str]) -> tuple[Atom, ...]:
     """Normalised, deduplicated, in display order (module docstring, step 5); an equality's two
-    halves adjacent, oriented so that its last parameter has coefficient +1 first."""
+    halves adjacent, the half whose last parameter has a positive coefficient first."""
     atoms = list(dict.fromkeys(normalised_atom(a) for a in atoms if a.form.coeffs))
     rank = {n: i for i, n in enumerate(names)}
     forms = {a.form for a in atoms if not a.strict}
