@@ -136,7 +136,7 @@ def claim_from_text(text: str, region=None, names: Iterable[str] | None = None, 
     names = None if names is None else list(names)
     area = _region(region, where, names)
     s = parse_sentence(text)
-    stated = [p for p in [s.param, *s.swap, *(n for n, _ in s.values)] if p]
+    stated = [p for p in [s.param, *s.swap, *(n for n, _ in s.values), *(n for n, _ in s.subst)] if p]
     definitions = definitions or {}
     if names is None:   # undeclared: the names of the region, the sentence and the definitions only
         declared = set(area.params()) | set(definitions)
@@ -159,6 +159,13 @@ def claim_from_text(text: str, region=None, names: Iterable[str] | None = None, 
     _check_names(s, names, text)
     if names is None:   # 'nondecreasing in alhpa': a name only the sentence mentions must occur in it
         _check_stated(s, stated, declared, side, text)
+    claim = _plain_claim(s, side, area, name)
+    if s.subst:   # `... with beta = alpha`: the claim on that slice (verifier.claims.slices)
+        claim = C.on_slice(claim, {n: side(v).expr for n, v in s.subst})
+    return claim
+
+
+def _plain_claim(s, side, area, name) -> C.Claim:
     if s.kind == "relation":
         return C.relation(side(s.lhs), s.rel, side(s.rhs), area, name)
     if s.kind == "within":
@@ -197,7 +204,7 @@ def _check_stated(s, stated, declared, side, text) -> None:
 def _check_names(s, names, text) -> None:
     if names is None:
         return
-    for p in [s.param, *s.swap, *(n for n, _ in s.values)]:
+    for p in [s.param, *s.swap, *(n for n, _ in s.values), *(n for n, _ in s.subst)]:
         if p and p not in names:
             raise InputError(f"unknown parameter '{p}' in '{text}' (known: {', '.join(names)})")
 

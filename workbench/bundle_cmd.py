@@ -95,6 +95,9 @@ def write_plots(report: Report, folder: Path) -> list[tuple[str, str]]:
         made = [("slice", slice_figure(s), f"{s.title}: both sides along {s.names[0]}")]
         if len(s.names) == 2:
             made.append(("map", regime_map(s), f"{s.title}: regimes in ({s.names[0]}, {s.names[1]})"))
+        if s.optimality is not None and s.optimality.fails and len(s.optimality.names) == 2:
+            from .exact_plot import exact_map
+            made.append(("exact", exact_map(s), f"{s.title}: where the claim holds and where it fails"))
         for kind, fig, caption in made:
             save_figure(fig, plots / f"claim{k:02d}_{kind}", ("png", "pdf"))
             figures.append((f"plots/claim{k:02d}_{kind}.pdf", caption))

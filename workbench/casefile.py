@@ -6,6 +6,7 @@ A case file is TOML in a layout of our own:
     [parameters]             name = "meaning"   (the only names expressions may use)
     [assume]                 region = "alpha >= 0"          (the standing assumption)
     [outer]                  named outer bounds; `outer` in a claim means their min
+    [outer.NAME]             a version of the converse (workbench.versions): `NAME` in a claim
     [inner]                  named inner bounds / schemes; `inner` means their max
     [formulas]               named formulas (conjectures, published curves)
     [[claims]]               statement = "inner == outer", where = "...", name = "...", expect = "proved"
@@ -34,16 +35,16 @@ from fractions import Fraction
 from pathlib import Path
 
 from verifier.claims import kinds as C
-from verifier.claims.piecewise import Piece, PiecewiseCheck, check_piecewise
-from verifier.core.errors import CaseFileError, InputError
-from verifier.expressions.expr import Expr, const, max_, min_, param, params, substitute
+from verifier.claims.piecewise import check_piecewise, Piece, PiecewiseCheck
+from verifier.core.errors import CaseFileError, InputError, ParseError, UnknownNameError
+from verifier.expressions.expr import const, max_, min_, param, params, substitute, Expr
 from verifier.expressions.region import Region
 from verifier.geometry.lp import feasible
 from verifier.text.latex_in import parse_latex_expr, parse_latex_region
 from verifier.text.lexer import KEYWORDS, MAX_LITERAL_DIGITS
-from verifier.text.parse import parse_expr, parse_region
-from verifier.text.parse import parse_piecewise
+from verifier.text.parse import parse_expr, parse_piecewise, parse_region
 
+from . import versions
 from .expansion import expand
 from .output_target import shown_path
 from .statements import Part, did_you_mean, explained, listing, parse_sentence, shifted
@@ -85,6 +86,7 @@ class Case:
     inner: dict[str, Expr]
     formulas: dict[str, Expr]
     claims: list[CaseClaim]
+    versions: dict = field(default_factory=dict)     # name -> (kind, {bound: Expr}): workbench.versions
     regime_checks: list[PiecewiseCheck] = field(default_factory=list)
     piecewise: dict = field(default_factory=dict)    # name -> PiecewiseCheck (pieces + min/max form)
     raw: dict = field(default_factory=dict)
@@ -96,18 +98,28 @@ class Case:
         Values may still mention regime-wise names (as placeholders); see workbench.expansion.
         """
         out = dict(self.outer) | dict(self.inner) | dict(self.formulas)
-        if self.outer:
+        versioned = {kind for kind, _ in self.versions.values()}
+        if self.outer and "outer" not in versioned:
             out["outer"] = min_(*(param(n) for n in self.outer))
-        if self.inner:
+        if self.inner and "inner" not in versioned:
             out["inner"] = max_(*(param(n) for n in self.inner))
+        for name, (kind, own) in self.versions.items():
+            shared = self.outer if kind == "outer" else self.inner
+            out[name] = versions.combine(kind, [param(n) for n in shared] + list(own.values()))
         return out
+
+    def version_parts(self, name: str) -> tuple[tuple[str, Expr], ...]:
+        """A version's named bounds (the shared ones first), resolved: the parts of its side."""
+        kind, own = self.versions[name]
+        shared = self.outer if kind == "outer" else self.inner
+        return tuple((n, self.resolve(e)) for n, e in shared.items()) + tuple(own.items())
 
     def resolve(self, expr: Expr) -> Expr:
         """Substitute names until only parameters and regime-wise placeholders remain.
 
         The table of names is built once per state of the case (not per call: a [network] with
         thousands of cut bounds resolves each of them)."""
-        state = (len(self.outer), len(self.inner), len(self.formulas), len(self.piecewise))
+        state = (len(self.outer), len(self.inner), len(self.formulas), len(self.piecewise), len(self.versions))
         if not self._resolving or self._resolving[0] != state:
             named = {k: v for k, v in self.named().items() if k not in self.piecewise}
             self._resolving = (state, named, frozenset(named))
@@ -362,7 +374,8 @@ def _parameters_only(params, what: str):
 
 
 def _check_new_name(rd: _Reader, key: str, name: str, case: Case) -> None:
-    taken = set(case.parameters) | RESERVED | set(case.outer) | set(case.inner) | set(case.formulas)
+    taken = set(case.parameters) | RESERVED | set(case.outer) | set(case.inner) | set(case.formulas) | \
+        set(case.versions)
     if not NAME_RE.fullmatch(name) or name in NOT_NAMES:
         raise rd.fail(key, f"'{shown_path(name)}' is not a valid name (a letter or _, then letters, "
                            "digits or _; not a word of the grammar)")
@@ -373,6 +386,7 @@ def _check_new_name(rd: _Reader, key: str, name: str, case: Case) -> None:
 def _bounds(rd: _Reader, table: dict, kind: str, case: Case, solver, timeout, budget=None) -> None:
     target = case.outer if kind == "outer" else case.inner
     explain = _explain_bound(case)
+    table, own_tables = versions.split(kind, table, rd.text)
     for name, value in table.items():
         key = f"{kind}.{name}"
         _check_new_name(rd, key, name, case)
@@ -381,6 +395,32 @@ def _bounds(rd: _Reader, table: dict, kind: str, case: Case, solver, timeout, bu
             target[name] = param(name)
         else:
             target[name] = rd.expr(key, value, list(case.parameters), explain)
+    for version, own in own_tables.items():
+        _version(rd, kind, version, own, case)
+
+
+def _version(rd: _Reader, kind: str, version: str, table: dict, case: Case) -> None:
+    """One `[outer.NAME]` table: a version of the converse (workbench.versions)."""
+    key = f"{kind}.{version}"
+    _check_new_name(rd, key, version, case)
+    if not table:
+        raise rd.fail(key, f"the version '{version}' has no bounds{rd.key_line([(kind, None), (version, None)])}")
+    shared = case.outer if kind == "outer" else case.inner
+    explain = _explain_bound(case)
+    own = {}
+    for name, value in table.items():
+        bkey = f"{key}.{name}"
+        if not NAME_RE.fullmatch(name) or name in NOT_NAMES or name in RESERVED:
+            raise rd.fail(bkey, f"'{shown_path(name)}' is not a valid name (a letter or _, then letters, "
+                                "digits or _; not a word of the grammar)")
+        if name in case.parameters or name in shared:
+            what = "a parameter" if name in case.parameters else f"a bound shared by every version ([{kind}])"
+            raise rd.fail(bkey, f"the name '{name}' is already {what}")
+        if versions.is_regime_wise(value):
+            raise rd.fail(bkey, f"a version's own bound cannot be given regime by regime; put it in [{kind}] "
+                                "(shared by every version) or write it with min/max")
+        own[name] = rd.expr(bkey, value, list(case.parameters), explain)
+    case.versions[version] = (kind, own)
 
 
 def _explain_bound(case: Case, what: str = "a bound"):
@@ -489,6 +529,10 @@ def _network_bounds(rd: _Reader, data: dict, case: Case) -> None:
 
 def _explain_claim_name(name: str, case: Case) -> str:
     """Why a claim cannot use `name`: a missing [outer]/[inner], or a typo among the names it has."""
+    held = [v for v, (kind, _) in case.versions.items() if kind == name]
+    if name in RESERVED and held:
+        return (f"'{name}' has versions ({listing(held)}): name the one the claim is about, "
+                f"e.g. '{held[-1]} <= {held[0]}'")
     if name in RESERVED:
         if isinstance(case.raw.get(name), dict):
             return f"'{name}' is used but the [{name}] table of the case file is empty"
@@ -515,6 +559,8 @@ def _side(rd: _Reader, part: Part, full: str, key: str, case: Case) -> C.Side:
         parts = tuple((n, case.resolve(e)) for n, e in case.outer.items())
     elif part.text == "inner":
         parts = tuple((n, case.resolve(e)) for n, e in case.inner.items())
+    elif part.text in case.versions:
+        parts = case.version_parts(part.text)
     return C.Side(case.resolve(expr), label, parts)
 
 
@@ -544,6 +590,8 @@ def _claim(rd: _Reader, index: int, spec, case: Case) -> CaseClaim:
         found = f"'{expect}'" if isinstance(expect, str) else kind_of(expect)
         raise rd.fail(f"{key}.expect", f"expected one of {', '.join(VERDICTS)}, found {found}")
     claim = _make_claim(rd, s, text, f"{key}.statement", region, name, case)
+    if claim.subst:   # the slice itself may miss the region: that is a typo too
+        _check_nonempty(rd, [("claims", index), ("statement", None)], claim.region)
     result = CaseClaim(claim, text, expect, key)
     _check_split(rd, f"{key}.statement", claim, case)
     try:
@@ -578,7 +626,54 @@ def _parameter_of_sentence(rd: _Reader, key: str, name: str, case: Case) -> None
                            + (f"; {close})" if close else ")"))
 
 
+def _assigned(rd, items, text, key, case) -> dict:
+    """{name: value} of `p = e, ...` (a parameter, and an expression of the parameters only); the
+    engine (verifier.claims.slices) refuses what is not a slice, and the error points at the item."""
+    out = {}
+    for name, part in items:
+        if name not in case.parameters:
+            close = did_you_mean(name, case.parameters).strip(" ()")
+            err = UnknownNameError(f"unknown parameter '{name}' (parameters: {listing(case.parameters)}"
+                                   + (f"; {close})" if close else ")"), text, _name_start(text, part))
+            raise rd.fail(key, err, text)
+        if name in out:
+            raise rd.fail(key, ParseError(f"'{name}' is given a value twice", text, _name_start(text, part)),
+                          text)
+        try:
+            out[name] = parse_expr(part.text, list(case.parameters))
+        except InputError as err:
+            err = explained(err, _explain_bound(case, "a substituted value"))
+            raise rd.fail(key, shifted(err, part, text), text) from None
+    return out
+
+
+def _name_start(text: str, value: Part) -> int:
+    """Where `name` of `name = value` starts: the word before the `=` preceding the value."""
+    eq = text.rfind("=", 0, value.start)
+    m = re.search(r"([A-Za-z_][A-Za-z0-9_]*)\s*$", text[:eq])
+    return m.start(1) if m else eq
+
+
+def _sliced(rd, make, items, text, key):
+    """make() with a SliceError (a refused substitution) pointed at the item it names."""
+    from verifier.claims.slices import SliceError
+    try:
+        return make()
+    except SliceError as err:
+        part = next((p for n, p in items if n == err.name), None)
+        pos = _name_start(text, part) if part is not None else None
+        raise rd.fail(key, ParseError(err.message, text, pos), text) from None
+
+
 def _make_claim(rd, s, text, key, region, name, case) -> C.Claim:
+    claim = _make_plain_claim(rd, s, text, key, region, name, case)
+    if not s.subst:
+        return claim
+    mapping = _assigned(rd, s.subst, text, key, case)
+    return _sliced(rd, lambda: C.on_slice(claim, mapping), s.subst, text, key)
+
+
+def _make_plain_claim(rd, s, text, key, region, name, case) -> C.Claim:
     lhs = _side(rd, s.lhs, text, key, case)
     for p in (s.param,) + s.swap:
         if p:
@@ -593,10 +688,9 @@ def _make_claim(rd, s, text, key, region, name, case) -> C.Claim:
             return C.monotone(lhs, s.param, region, s.increasing, name)
         if s.kind == "symmetric":
             return C.symmetric(lhs, s.swap[0], s.swap[1], region, name)
-        for n, _ in s.values:
-            _parameter_of_sentence(rd, key, n, case)
-        values = {n: _side(rd, v, text, key, case).expr for n, v in s.values}
-        return C.reduces_to(lhs, values, _side(rd, s.rhs, text, key, case), region, name)
+        values = _assigned(rd, s.values, text, key, case)
+        rhs = _side(rd, s.rhs, text, key, case)
+        return _sliced(rd, lambda: C.reduces_to(lhs, values, rhs, region, name), s.values, text, key)
     except CaseFileError:
         raise
     except InputError as err:

@@ -169,7 +169,8 @@ def claim_latex(claim) -> str:
         trend = "non-decreasing" if claim.increasing else "non-increasing"
         body = rf"{lhs}\ \text{{{trend} in }} {name_latex(claim.param)}"
     elif claim.kind == "reduces-to":
-        fixed = ", ".join(f"{name_latex(n)} = {number_latex(v)}" for n, v in claim.values)
+        fixed = ", ".join([f"{name_latex(n)} = {number_latex(v)}" for n, v in claim.values] +
+                          [f"{name_latex(n)} = {expr_latex(e)}" for n, e in claim.subst])
         body = rf"\left.{lhs}\right|_{{{fixed}}} = {_side_latex(claim.rhs)}"
     else:
         body = rf"{lhs}\ \text{{symmetric in }} {name_latex(claim.swap[0])}, {name_latex(claim.swap[1])}"

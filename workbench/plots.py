@@ -23,13 +23,13 @@ matplotlib.use("Agg")
 from matplotlib.figure import Figure  # noqa: E402
 from matplotlib.patches import Polygon  # noqa: E402
 
-from verifier.claims.kinds import compared_exprs, witness_region  # noqa: E402
-from verifier.core.errors import InputError  # noqa: E402
-from verifier.expressions.expr import evaluate, substitute  # noqa: E402
-from verifier.regimes.spec import spec_of  # noqa: E402
-from verifier.regimes.thresholds import slice_profile  # noqa: E402
-from verifier.report.latex import name_latex  # noqa: E402
-from verifier.report.text import active_cell  # noqa: E402
+from verifier.claims.kinds import compared_exprs, own_region, witness_region
+from verifier.core.errors import InputError
+from verifier.expressions.expr import evaluate, substitute
+from verifier.regimes.spec import spec_of
+from verifier.regimes.thresholds import slice_profile
+from verifier.report.latex import name_latex
+from verifier.report.text import active_cell
 
 STYLE = {"font.size": 8, "axes.titlesize": 8, "axes.labelsize": 8, "legend.fontsize": 6,
          "xtick.labelsize": 7, "ytick.labelsize": 7, "lines.linewidth": 1.2}
@@ -44,7 +44,7 @@ def _curves(section):
     """(exprs, labels, region, named parts) of what a slice draws."""
     claim = section.claim
     if claim.kind == "monotone":
-        return (claim.lhs.expr,), (section.labels[0],), claim.region, spec_of(claim).parts
+        return compared_exprs(claim)[:1], (section.labels[0],), own_region(claim), spec_of(claim).parts
     return compared_exprs(claim), section.labels, witness_region(claim), spec_of(claim).parts
 
 

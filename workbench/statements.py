@@ -8,6 +8,11 @@ min{...} never split a sentence.  Forms (A, B, C are expressions; p, q parameter
     A nondecreasing in p            (also: nonincreasing, non-decreasing, non-increasing)
     A with p = v, q = w equals B    A reduces to B when p = v and q = w
     A symmetric in p, q             A unchanged when p and q are swapped
+    ANY OF THESE with p = e, ...    the claim on the slice p = e (e affine in the other parameters;
+                                    verifier.claims.slices): `inner == outer with beta = alpha`
+
+In `A with p = e equals B` the values may be expressions too; a trailing `with` (no `equals` after
+it) ends the sentence, so its `=` signs are never read as the claim's relation.
 
 Expressions are parsed by verifier.text.parse with the case's parameter and bound names; an error inside a
 part is re-raised with its column counted from the start of the sentence.
@@ -49,6 +54,7 @@ class Sentence:
     increasing: bool = True
     values: list[tuple[str, Part]] = field(default_factory=list)
     swap: tuple[str, str] = ("", "")
+    subst: list[tuple[str, Part]] = field(default_factory=list)   # a trailing `with p = e, ...`
 
 
 def _depth0_mask(text: str) -> list[bool]:
@@ -88,18 +94,31 @@ def _name(part: Part, full: str) -> str:
 
 
 def _split_list(part: Part) -> list[Part]:
-    pieces, pos = [], part.start
-    for chunk in re.split(r",|\band\b", part.text):
-        offset = part.text.find(chunk, pos - part.start)
-        pieces.append(Part(chunk.strip(), part.start + offset + (len(chunk) - len(chunk.lstrip()))))
-        pos = part.start + offset + len(chunk)
-    return pieces
+    """Items separated by `,` or `and` at bracket depth 0 (a value may be `min(alpha, 1)`)."""
+    mask, pieces, begin = _depth0_mask(part.text), [], 0
+    for m in re.finditer(r",|\band\b", part.text):
+        if mask[m.start()]:
+            pieces.append((begin, m.start()))
+            begin = m.end()
+    pieces.append((begin, len(part.text)))
+    out = []
+    for a, b in pieces:
+        chunk = part.text[a:b]
+        out.append(Part(chunk.strip(), part.start + a + (len(chunk) - len(chunk.lstrip()))))
+    return out
 
 
 def parse_sentence(text: str) -> Sentence:
     """Split a claim sentence into its kind and parts (expressions are parsed later)."""
     if not text.strip():
         raise ParseError("empty claim", text, 0)
+    w = _find(KEYWORDS["reduces-to"], text)
+    if w is not None and _find(EQUALS_RE, text, w.end()) is None:
+        _part(text, 0, w.start(), "claim before 'with'", text)   # refuses an empty head
+        sentence = parse_sentence(text[:w.start()])
+        sentence.subst = _assignments(_part(text, w.end(), len(text), "substitution after 'with'", text),
+                                      text)
+        return sentence
     for kind, pattern in KEYWORDS.items():
         m = _find(pattern, text)
         if m is not None:
@@ -138,18 +157,29 @@ def _symmetric(text: str, m) -> Sentence:
     return Sentence("symmetric", _part(text, 0, m.start(), "function", text), swap=(names[0], names[1]))
 
 
-def _reduces(text: str, m) -> Sentence:
-    eq = _find(re.compile(r"\bequals\b"), text, m.end())
-    if eq is None:
-        raise ParseError("'with' needs 'equals': A with p = 0 equals B", text, m.start())
+EQUALS_RE = re.compile(r"\bequals\b")
+
+
+def _assignments(part: Part, text: str) -> list[tuple[str, Part]]:
+    """`p = v, q = 2*alpha` as [(name, value part)], each value part positioned in the sentence."""
     values = []
-    for item in _split_list(_part(text, m.end(), eq.start(), "values", text)):
-        if "=" not in item.text:
+    for item in _split_list(part):
+        if "=" not in item.text or item.text.count("=") > 1 or re.search(r"[<>≤≥]", item.text):
             raise ParseError(f"expected 'name = value', found '{item.text}'", text, item.start)
         name, _, value = item.text.partition("=")
+        if not value.strip():
+            raise ParseError(f"missing value after '{name.strip()} ='", text, item.start + len(item.text) - 1)
         values.append((_name(Part(name.strip(), item.start), text),
                        Part(value.strip(), item.start + item.text.index("=") + 1 +
                             (len(value) - len(value.lstrip())))))
+    return values
+
+
+def _reduces(text: str, m) -> Sentence:
+    eq = _find(EQUALS_RE, text, m.end())
+    if eq is None:
+        raise ParseError("'with' needs 'equals': A with p = 0 equals B", text, m.start())
+    values = _assignments(_part(text, m.end(), eq.start(), "values", text), text)
     return Sentence("reduces-to", _part(text, 0, m.start(), "function", text),
                     _part(text, eq.end(), len(text), "right side", text), values=values)
 

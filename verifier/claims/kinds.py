@@ -13,6 +13,16 @@ Kinds and their violations (R is the claim's region):
                                   the slice p = v of R (a right side that mentions p is evaluated at
                                   p = v too), so a counterexample is a point of R itself
 - symmetric in (p, q):            x in R and f(x) != f(x with p and q swapped)
+
+Any kind may be read on a slice (`... with beta = alpha`, see verifier.claims.slices): `subst` maps some
+parameters to affine expressions of the others, and the claim is the claim on {x in R : beta = e(x)}.
+The region keeps the slice as equalities (so it is printed, and every re-check requires it); the
+compared expressions and the witness region have the substituted names eliminated (the witness
+lives in the remaining parameters, full-dimensional for the regime prover), and claim_points puts
+beta = e(x) back into every point a witness stands for.  For monotone and symmetric claims this is
+the claim about the restricted function g(x) = f(x with beta = e(x)): monotone compares two points
+of the slice, symmetric swaps two remaining parameters of g.  A reduces-to claim's numbers stay in
+`values` (its slice is not part of R, as before); `substitution` is the union of both.
 """
 
 from __future__ import annotations
@@ -70,6 +80,7 @@ class Claim:
     swap: tuple[str, str] = ("", "")
     name: str = ""
     params: tuple[str, ...] = field(default=())
+    subst: tuple[tuple[str, Expr], ...] = ()      # the slice: name -> affine expression of others
 
     def named(self, name: str) -> "Claim":
         return replace(self, name=name)
@@ -89,7 +100,8 @@ class Claim:
             trend = "non-decreasing" if self.increasing else "non-increasing"
             return f"{self.lhs.text()} is {trend} in {self.param}{where}"
         if self.kind == "reduces-to":
-            fixed = ", ".join(f"{n} = {_num(v)}" for n, v in self.values)
+            fixed = ", ".join([f"{n} = {_num(v)}" for n, v in self.values] +
+                              [f"{n} = {to_text(e)}" for n, e in self.subst])
             return f"{self.lhs.text()} with {fixed} equals {self.rhs.text()}{where}"
         return f"{self.lhs.text()} is symmetric in {self.swap[0]} and {self.swap[1]}{where}"
 
@@ -144,18 +156,42 @@ def monotone(f, in_param: str, region: Region, increasing: bool = True, name: st
 
 
 def reduces_to(lhs, values: Mapping[str, object], rhs, region: Region, name: str = "") -> Claim:
-    """lhs with some parameters fixed equals rhs over what remains of the region."""
-    fixed = tuple(sorted((n, lift(v).const if not params(lift(v)) else _bad_value(n, v))
-                         for n, v in values.items()))
-    if not fixed:
+    """lhs with some parameters fixed (to numbers, or to affine expressions of the other parameters:
+    a slice, see verifier.claims.slices) equals rhs over what remains of the region."""
+    from verifier.claims.slices import closed_substitution
+    if not values:
         raise InputError("reduces-to needs at least one parameter to fix")
+    closed = closed_substitution(values)
+    fixed = tuple((n, e.const) for n, e in closed if not params(e))
     lhs, rhs = as_side(lhs), as_side(rhs)
-    return Claim("reduces-to", lhs, region, rhs, values=fixed, name=name,
-                 params=_all_params(region, lhs.expr, rhs.expr))
+    claim = Claim("reduces-to", lhs, region, rhs, values=fixed, name=name,
+                  params=_all_params(region, lhs.expr, rhs.expr))
+    moving = {n: e for n, e in closed if params(e)}
+    return on_slice(claim, moving) if moving else claim
 
 
-def _bad_value(name, value):
-    raise InputError(f"reduces-to: the value of '{name}' must be a number, not '{value}'")
+def on_slice(claim: Claim, mapping: Mapping[str, object]) -> Claim:
+    """The claim read on the slice {x in its region : name = e(x) for each name -> e}: the region
+    gains the equalities, the substituted names leave the witness (see the module docstring)."""
+    from verifier.expressions.region import atoms_of
+    from verifier.claims.slices import closed_substitution, refuse_moved
+    closed = closed_substitution({**dict(claim.subst), **dict(mapping)})
+    refuse_moved(claim, dict(closed))
+    moving = tuple((n, e) for n, e in closed if n not in dict(claim.values))
+    fresh = [a for n, e in moving if n not in dict(claim.subst) for a in atoms_of(param(n), "==", e)]
+    # appended, not met: the equalities stay visible in the printed region even where the region
+    # already has one of their halves (`beta >= 0` and the slice `beta == 0`)
+    region = Region(tuple(Polyhedron(p.atoms + tuple(fresh)) for p in claim.region.pieces)) \
+        if fresh else claim.region
+    names = set(claim.params) | set(region.params())
+    for _, e in moving:
+        names |= params(e)
+    return replace(claim, region=region, subst=moving, params=tuple(sorted(names)))
+
+
+def substitution(claim: Claim) -> dict[str, Expr]:
+    """Every substituted name: a reduces-to claim's numbers and the slice's expressions."""
+    return {**{n: lift(v) for n, v in claim.values}, **dict(claim.subst)}
 
 
 def symmetric(f, p: str, q: str, region: Region, name: str = "") -> Claim:
@@ -193,15 +229,14 @@ def compared_exprs(claim: Claim) -> tuple[Expr, Expr]:
 
 
 def _compared_exprs(claim: Claim) -> tuple[Expr, Expr]:
-    if claim.kind in ("relation", "within"):
-        return claim.lhs.expr, claim.rhs.expr
+    fixed = substitution(claim)
+    lhs = substitute(claim.lhs.expr, fixed) if fixed else claim.lhs.expr
+    if claim.kind in ("relation", "within", "reduces-to"):
+        return lhs, substitute(claim.rhs.expr, fixed) if fixed else claim.rhs.expr
     if claim.kind == "monotone":
-        return claim.lhs.expr, rename(claim.lhs.expr, {claim.param: primed(claim.param)})
-    if claim.kind == "reduces-to":
-        fixed = dict(claim.values)
-        return substitute(claim.lhs.expr, fixed), substitute(claim.rhs.expr, fixed)
+        return lhs, rename(lhs, {claim.param: primed(claim.param)})
     p, q = claim.swap
-    return claim.lhs.expr, rename(claim.lhs.expr, {p: q, q: p})
+    return lhs, rename(lhs, {p: q, q: p})
 
 
 def witness_region(claim: Claim) -> Region:
@@ -210,14 +245,21 @@ def witness_region(claim: Claim) -> Region:
 
 
 def _witness_region(claim: Claim) -> Region:
-    if claim.kind == "reduces-to":
-        return claim.region.substitute(dict(claim.values))
+    fixed = substitution(claim)
+    region = claim.region.substitute(fixed) if fixed else claim.region
     if claim.kind != "monotone":
-        return claim.region
+        return region
     p = claim.param
     moved = Region(tuple(Polyhedron(tuple(Atom(rename(a.form, {p: primed(p)}), a.strict)
-                                          for a in poly.atoms)) for poly in claim.region.pieces))
-    return claim.region.meet(moved)
+                                          for a in poly.atoms)) for poly in region.pieces))
+    return region.meet(moved)
+
+
+def own_region(claim: Claim) -> Region:
+    """The claim's region in the witness's own (unprimed) parameters: a slice claim's region with
+    the substituted names eliminated (where a monotone claim's points both live)."""
+    fixed = substitution(claim)
+    return claim.region.substitute(fixed) if fixed else claim.region
 
 
 def violation_conditions(claim: Claim) -> tuple[tuple[Expr, str, Expr], ...]:
@@ -238,7 +280,8 @@ def _violation_conditions(claim: Claim) -> tuple[tuple[Expr, str, Expr], ...]:
 
 
 def witness_names(claim: Claim) -> tuple[str, ...]:
-    names = [n for n in claim.params if n not in dict(claim.values)]
+    fixed = substitution(claim)
+    names = [n for n in claim.params if n not in fixed]
     if claim.kind == "monotone":
         names.append(primed(claim.param))
     return tuple(sorted(set(names)))
@@ -259,25 +302,32 @@ def claim_points(claim: Claim, witness: Mapping[str, Fraction]) -> tuple[dict, .
     fixed values of a reduces-to claim put back), or two for a monotone claim (before and after the
     move in its parameter).  Each must lie in the claim's region for the witness to count."""
     point = {k: Fraction(v) for k, v in witness.items()}
-    if claim.kind == "reduces-to":
-        for n, v in claim.values:
-            if n in point and point[n] != v:
-                return ()
-            point[n] = v
-        return (dict(sorted(point.items())),)
+    fixed = substitution(claim)
+    moved, given = None, {}
     if claim.kind == "monotone":
-        p = claim.param
-        moved = point.pop(primed(p), None)
+        moved = point.pop(primed(claim.param), None)
+        given = {n: point.pop(primed(n)) for n in fixed if primed(n) in point}
         if moved is None:
             return ()
-        return (dict(sorted(point.items())), dict(sorted({**point, p: moved}.items())))
-    return (dict(sorted(point.items())),)
+    out = [point] if moved is None else [point, {**point, claim.param: moved, **given}]
+    for x in out:
+        free = {k: v for k, v in x.items() if k not in fixed}
+        for n, e in fixed.items():
+            try:
+                v = evaluate(e, free)
+            except (KeyError, InputError):
+                return ()
+            if n in x and x[n] != v:
+                return ()
+            x[n] = v
+    return tuple(dict(sorted(x.items())) for x in out)
 
 
 def witness_of(claim: Claim, point: Mapping[str, Fraction]) -> dict:
     """The witness variables' values at a point of the claim space (drops fixed parameters)."""
-    fixed = dict(claim.values)
-    return {k: Fraction(v) for k, v in point.items() if k not in fixed}
+    fixed = substitution(claim)
+    derived = set(fixed) | {primed(n) for n in fixed}
+    return {k: Fraction(v) for k, v in point.items() if k not in derived}
 
 
 def violated_at(claim: Claim, point: Mapping[str, Fraction]) -> bool:

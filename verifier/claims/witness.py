@@ -88,12 +88,26 @@ def describe(claim: Claim, point: Mapping[str, Fraction], origin: str) -> Counte
     w = witness_of(claim, point)
     left, right = compared_exprs(claim)
     from verifier.expressions.expr import evaluate
-    full = claim_points(claim, point)[0] if claim.kind != "monotone" else dict(sorted(w.items()))
+    full = claim_points(claim, point)[0] if claim.kind != "monotone" else _pair_point(claim, point)
     rhs_side = claim.rhs if claim.rhs is not None else claim.lhs
     lhs_active = claim.lhs.active_parts(full) if claim.kind not in ("reduces-to",) else ()
     rhs_active = rhs_side.active_parts(full) if claim.kind in ("relation", "within") else ()
     return Counterexample(full, evaluate(left, w), evaluate(right, w), lhs_active, rhs_active,
                           inside(claim, point), origin)
+
+
+def _pair_point(claim: Claim, point: Mapping[str, Fraction]) -> dict:
+    """A monotone counterexample as one record: the first point, the moved parameter primed, and a
+    slice claim's substituted names at both points (`beta`, `beta'`), so the printed point says
+    where on the slice each of the two points lies."""
+    from verifier.claims.kinds import primed
+    first, second = claim_points(claim, point)
+    out = dict(first)
+    out[primed(claim.param)] = second[claim.param]
+    for n, _ in claim.subst:
+        if second[n] != first[n]:
+            out[primed(n)] = second[n]
+    return dict(sorted(out.items()))
 
 
 # ---------------------------------------------------------------------------------------------

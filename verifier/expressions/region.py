@@ -436,9 +436,21 @@ class Notation:
     atom: object = None         # atom(Atom) -> str for constraints in several parameters
     joiner: str = ", "
     everywhere: str = "everywhere"
+    affine: object = None       # affine(Affine) -> str, for equalities in several parameters
 
 
-TEXT = Notation(rel=lambda r: r, atom=lambda a: a.text())
+TEXT = Notation(rel=lambda r: r, atom=lambda a: a.text(), affine=to_text)
+
+
+def equation_sides(form: Affine) -> tuple[Affine, Affine]:
+    """(left, right) with left - right == form, for printing the equality form == 0 so that it parses
+    back to the same two atoms in the same order: `beta == alpha`, `gamma == 1 + 2*alpha` (a name with
+    coefficient 1 alone on the left when there is one, as substitutions read)."""
+    lead = next((n for n, c in reversed(form.coeffs) if c == 1), None)
+    if lead is not None:
+        return affine([(lead, 1)]), affine([(n, -c) for n, c in form.coeffs if n != lead], -form.const)
+    return (affine([(n, c) for n, c in form.coeffs if c > 0], max(form.const, 0)),
+            affine([(n, -c) for n, c in form.coeffs if c < 0], max(-form.const, 0)))
 
 
 def _single(atom: Atom):
@@ -475,7 +487,8 @@ def _pairs_adjacent(atoms: list) -> list:
 
 
 def chain_items(atoms, reorder: bool = False) -> list[tuple]:
-    """('eq', name, v) / ('chain', name, lo, lo_strict, hi, hi_strict) / ('atom', atom), in order.
+    """('eq', name, v) / ('chain', name, lo, lo_strict, hi, hi_strict) / ('equation', form) /
+    ('atom', atom), in order.
 
     Only a lower bound directly followed by an upper bound on the same parameter becomes one chain
     (that is what `1/2 <= alpha < 2/3` and `alpha == 1` parse to), so the printed text parses back to
@@ -493,6 +506,11 @@ def chain_items(atoms, reorder: bool = False) -> list[tuple]:
                 items.append(("eq", got[0], got[1]))
             else:
                 items.append(("chain", got[0], got[1], lo.strict, nxt[1], hi.strict))
+            i += 2
+            continue
+        if not got and nxt is None and i + 1 < len(atoms) and not atoms[i].strict and \
+                not atoms[i + 1].strict and atoms[i + 1].form == _neg(atoms[i].form):
+            items.append(("equation", atoms[i].form))   # what `beta == alpha` parses to
             i += 2
             continue
         if got:
@@ -513,6 +531,10 @@ def constraint_text(atoms, notation: Notation = TEXT, reorder: bool = False) -> 
     for item in chain_items(atoms, reorder):
         if item[0] == "atom":
             out.append(nt.atom(item[1]))
+        elif item[0] == "equation":
+            left, right = equation_sides(item[1])
+            show = nt.affine or to_text
+            out.append(f"{show(left)} {nt.rel('==')} {show(right)}")
         elif item[0] == "eq":
             out.append(f"{nt.name(item[1])} {nt.rel('==')} {nt.number(item[2])}")
         else:

@@ -27,6 +27,8 @@ reason: the checker then says NOT certified.  Exact numbers are strings "p/q", n
 
 from __future__ import annotations
 
+from verifier.expressions.expr import to_text
+
 import json
 from fractions import Fraction
 from typing import Sequence
@@ -195,7 +197,8 @@ def claim_data(proof, spec) -> dict:
     return {"text": c.text(), "name": c.name, "kind": c.kind, "relation": spec.rel,
             "gap": None if spec.gap is None else num(spec.gap),
             "param": spec.param, "increasing": spec.increasing,
-            "values": {n: num(v) for n, v in c.values}, "swap": list(c.swap) if c.kind == "symmetric" else [],
+            "values": {n: num(v) for n, v in c.values},
+            "subst": {n: to_text(e) for n, e in c.subst}, "swap": list(c.swap) if c.kind == "symmetric" else [],
             "labels": list(spec.labels), "exprs": [expr_data(e) for e in spec.exprs]}
 
 

@@ -74,7 +74,8 @@ def violations(spec: Spec, atoms: Sequence[Atom], forms, names) -> list[tuple[in
 def failure_piece(spec: Spec, regime: int, k: int, atoms, forms, names,
                   box: Mapping[str, tuple] | None = None) -> FailurePiece:
     """Describe one failing polyhedron (see the module docstring)."""
-    kept, _ = irredundant(atoms, names)
+    from verifier.regimes.optimality import normalised_atom   # `alpha > 1/3`, not `3*alpha/2 > 1/2` (same half-space)
+    kept = tuple(normalised_atom(a) for a in irredundant(atoms, names)[0])
     s = shape(kept, names)
     point = nice_point(kept, names)
     amount = violation_amount(obligations(spec, tuple(forms))[k])

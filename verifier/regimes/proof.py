@@ -34,24 +34,24 @@ from dataclasses import dataclass, field
 from functools import partial
 from typing import Callable, Mapping
 
-from verifier.claims.kinds import Claim, witness_of
-from verifier.claims.one_shot import Verdict, prove
-from verifier.claims.witness import Counterexample, best_counterexample
+from verifier.claims.kinds import witness_of, Claim
+from verifier.claims.one_shot import prove, Verdict
+from verifier.claims.witness import best_counterexample, Counterexample
 from verifier.core.budget import Budget, OutOfBudget
 from verifier.core.errors import RegionError
 from verifier.core.verdicts import methods, overall
 from verifier.geometry.shape import reduce_modulo
-from verifier.regimes.analysis import Gap, PartReport, max_gap, part_reports
+from verifier.regimes.analysis import max_gap, part_reports, Gap, PartReport
 from verifier.regimes.certificates import check_certificate
-from verifier.regimes.decompose import decompose, disjoint_pieces
-from verifier.regimes.decompose import worker_setup as regimes_worker_setup
+from verifier.regimes.decompose import decompose, disjoint_pieces, worker_setup as regimes_worker_setup
 from verifier.regimes.export import export_proof
-from verifier.regimes.failure import FailureRegion, failure_region
+from verifier.regimes.failure import failure_region, FailureRegion
+from verifier.regimes.optimality import optimality_region
 from verifier.regimes.polytope import cell_polytope, convex_union, nice, region_is_convex
 from verifier.regimes.spec import spec_of, targets
-from verifier.regimes.thresholds import Threshold, thresholds
+from verifier.regimes.thresholds import thresholds, Threshold
 from verifier.regimes.witness import counterexamples
-from verifier.regimes.work import PROVED, REFUTED, UNKNOWN, Regime, assemble, finish_cell
+from verifier.regimes.work import assemble, finish_cell, PROVED, REFUTED, Regime, UNKNOWN
 from verifier.standalone import check_certificates as checker
 
 
@@ -77,6 +77,7 @@ class RegimeProof:
     cells: int = 0
     workers: int = 1
     checked: bool | None = None          # the standalone checker re-verified certificates + coverage
+    optimality: object = None            # verifier.regimes.optimality.OptimalityRegion: where it holds / fails
 
     @property
     def certified(self) -> bool:
@@ -248,6 +249,10 @@ def _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, worke
     except OutOfBudget as exc:
         notes.append(f"counterexample ranking incomplete: {exc}")
         cexs = counterexamples(claim, spec, regimes, solver, budget, improve=False)
+    optimal = _analyse(budget, notes, "optimality region", (None, ""),
+                       lambda: optimality_region(claim, spec, regimes, pieces, budget)) if compare else (None, "")
+    if optimal[1]:
+        notes.append(optimal[1])
     clock["analysis"] = time.perf_counter()
     if status == REFUTED and not cexs:
         status, detail = UNKNOWN, "regimes fail but no failing point re-checks exactly: an engine defect"
@@ -285,7 +290,8 @@ def _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, worke
     clock.setdefault("smt", clock["analysis"])
     timing = _timing(clock)
     return RegimeProof(claim, status, method, spec.names, spec.labels, regimes, ths, failure, cexs,
-                       parts, gaps, verdict, agree, detail, timing, len(cells), workers, checked)
+                       parts, gaps, verdict, agree, detail, timing, len(cells), workers, checked,
+                       optimal[0] if status in (PROVED, REFUTED) else None)
 
 
 def _independent_check(claim, spec, regimes, pool=None, workers=1):

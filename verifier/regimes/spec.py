@@ -19,8 +19,9 @@ from __future__ import annotations
 from dataclasses import dataclass
 from fractions import Fraction
 
-from verifier.claims.kinds import Claim, compared_exprs, witness_names, witness_region
-from verifier.expressions.expr import Affine, Expr, add, const, rename, scale, substitute
+from verifier.claims.kinds import (compared_exprs, own_region, primed, substitution, witness_names,
+    witness_region, Claim)
+from verifier.expressions.expr import add, const, rename, scale, substitute, Affine, Expr
 from verifier.expressions.region import Atom, Region
 
 
@@ -44,20 +45,21 @@ class Spec:
 
 def spec_of(claim: Claim) -> Spec:
     left, right = compared_exprs(claim)
+    fixed = substitution(claim)   # a slice claim's parts, like its sides, in the remaining names
+    lhs_parts = [(n, substitute(e, fixed) if fixed else e) for n, e in claim.lhs.parts]
     if claim.kind == "monotone":
-        parts = tuple((0, n, e) for n, e in claim.lhs.parts)
-        return Spec("monotone", tuple(claim.params), claim.region, (left,), (claim.lhs.text(),),
-                    param=claim.param, increasing=claim.increasing, parts=parts)
+        names = tuple(n for n in witness_names(claim) if n != primed(claim.param))
+        return Spec("monotone", names, own_region(claim), (left,), (claim.lhs.text(),),
+                    param=claim.param, increasing=claim.increasing,
+                    parts=tuple((0, n, e) for n, e in lhs_parts))
     names = tuple(witness_names(claim))
     labels = (claim.lhs.text(), claim.rhs.text() if claim.rhs is not None else _swapped_label(claim))
-    parts = [(0, n, e) for n, e in claim.lhs.parts]
-    if claim.kind == "reduces-to":
-        parts = [(0, n, substitute(e, dict(claim.values))) for n, e in claim.lhs.parts]
+    parts = [(0, n, e) for n, e in lhs_parts]
     if claim.kind == "symmetric":
         p, q = claim.swap
-        parts += [(1, n, rename(e, {p: q, q: p})) for n, e in claim.lhs.parts]
+        parts += [(1, n, rename(e, {p: q, q: p})) for n, e in lhs_parts]
     elif claim.rhs is not None:
-        parts += [(1, n, e) for n, e in claim.rhs.parts]
+        parts += [(1, n, substitute(e, fixed) if fixed else e) for n, e in claim.rhs.parts]
     rel = claim.rel if claim.kind == "relation" else "=="
     gap = claim.gap if claim.kind == "within" else None
     return Spec("compare", names, witness_region(claim), (left, right), labels, rel, gap,

@@ -87,6 +87,7 @@ class ClaimReport:
     expect: str | None = None
     checked: bool | None = None    # certificates and coverage re-verified by the standalone checker
     proof: RegimeProof | None = field(default=None, compare=False, repr=False)  # for certificates; not serialised
+    optimality: object = None      # verifier.regimes.optimality.OptimalityRegion (comparison claims) or None
 
     def to_sympy(self, side: int = 0):
         """One side as a sympy Piecewise over the regimes (for notebooks and further algebra)."""
@@ -167,7 +168,7 @@ def claim_report(proof: RegimeProof, label: str = "", expect: str | None = None)
         parts=proof.parts, gaps=proof.gaps, smt_solver=smt.solver if smt else "",
         smt_status=smt.status if smt else "", agree=proof.agree, certified=proof.certified,
         cells=proof.cells, seconds=float(proof.timing.get("total", 0.0)), expect=expect,
-        checked=proof.checked, proof=proof)
+        checked=proof.checked, proof=proof, optimality=proof.optimality)
 
 
 def build_report(proofs, title: str = "", source: str = "", solver: str = "z3",

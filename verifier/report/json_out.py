@@ -68,6 +68,22 @@ def failure_json(f) -> dict | None:
             "share": None if f.share is None else num(f.share), "share_note": f.share_note}
 
 
+def exact_sets_json(op) -> dict | None:
+    """Where the claim holds and fails exactly (verifier.regimes.optimality); null when not computed."""
+    if op is None:
+        return None
+    from verifier.regimes.optimality import sentences
+    holds, fails, within = sentences(op)
+    return {"parameters": list(op.names),
+            "within": None if op.within is None else polyhedron_json(Polyhedron(op.within)),
+            "holds": [polyhedron_json(Polyhedron(p)) for p in op.holds],
+            "fails": [polyhedron_json(Polyhedron(p)) for p in op.fails],
+            "holds_points": [point_json(x) for x in op.holds_points],
+            "fails_points": [point_json(x) for x in op.fails_points],
+            "holds_text": holds, "fails_text": fails,
+            "slice": {n: to_text(e) for n, e in op.substituted}}
+
+
 def section_json(s: ClaimReport) -> dict:
     return {"name": s.name, "label": s.label, "statement": s.statement, "kind": s.kind,
             "status": s.status, "expected": s.expect, "method": s.method, "detail": s.detail,
@@ -76,6 +92,7 @@ def section_json(s: ClaimReport) -> dict:
             "thresholds": [{"text": t.text, "form": affine_json(t.form), "between": [list(b) for b in t.between]}
                            for t in s.thresholds],
             "failure": failure_json(s.failure),
+            "exact_sets": exact_sets_json(s.optimality),
             "counterexamples": [counterexample_json(c) for c in s.counterexamples],
             "bounds": [{"side": p.side, "name": p.name, "redundant": p.redundant,
                         "active_in": list(p.active_in), "unique_in": list(p.unique_in)} for p in s.parts],

@@ -70,7 +70,7 @@ LATEX_RELS = {"<": "<", "<=": r"\le", "==": "=", ">=": r"\ge", ">": ">"}
 def condition_latex(atoms) -> str:
     """Constraints with one-parameter bounds chained: 1/2 <= alpha < 2/3 in LaTeX."""
     notation = Notation(name=name_latex, number=number_latex, rel=LATEX_RELS.get, atom=atom_latex,
-                        joiner=",\\ ", everywhere=r"\text{everywhere}")
+                        joiner=",\\ ", everywhere=r"\text{everywhere}", affine=affine_latex)
     return constraint_text(atoms, notation, reorder=True)
 
 
@@ -109,6 +109,9 @@ def _summary(section: ClaimReport) -> list[str]:
         where = "; ".join(f"${regime_condition_of(p.polyhedron)}$ (dimension {p.dim})" for p in f.pieces)
         share = escape(f"{num(f.share)} ({f.share_note})" if f.share is not None else f.share_note)
         out.append(f"The claim fails on: {where}. Share of the region: {share}.")
+    sentence = optimality_sentence(section)
+    if sentence:
+        out.append(sentence)
     if section.redundant:
         out.append("Redundant bounds: " + ", ".join(f"\\texttt{{{escape(p.name)}}}" for p in section.redundant) + ".")
     for g in section.gaps:
@@ -116,6 +119,26 @@ def _summary(section: ClaimReport) -> list[str]:
             out.append(f"$\\max(\\mathrm{{{g.direction.replace(' ', '')}}}) = {number_latex(g.value)}$"
                        + ("" if g.attained else " (supremum, not attained)") + ".")
     return out
+
+
+def optimality_sentence(section: ClaimReport) -> str:
+    """'The claim holds exactly when $...$ or $...$ (for $...$), and fails exactly when $...$.':
+    paste-ready (verifier.regimes.optimality: merged pieces, normalised and chained constraints)."""
+    from verifier.regimes.optimality import sentences
+    op = section.optimality
+    if op is None or not op.fails:
+        return ""
+    notation = Notation(name=name_latex, number=number_latex, rel=LATEX_RELS.get, atom=atom_latex,
+                        joiner=",\\ ", everywhere=r"\text{everywhere}", affine=affine_latex)
+    holds, fails, within = sentences(op, notation, joiner="$ or $")
+
+    def shown(pieces, text):
+        if not pieces:
+            return "nowhere"
+        return "everywhere" if pieces == ((),) else f"${text}$"
+    holds, fails = shown(op.holds, holds), shown(op.fails, fails)
+    where = f" (for ${within}$)" if within else ""
+    return f"The claim holds exactly when {holds}{where}, and fails exactly when {fails}."
 
 
 def regime_condition_of(poly) -> str:

@@ -8,7 +8,9 @@ from __future__ import annotations
 
 from verifier.core.verdicts import tally_sentence
 from verifier.expressions.expr import to_text
-from verifier.report.build import ClaimEntry, ClaimReport, Report, count, failure_share_text, gap_text, num, point_text, solver_text
+from verifier.regimes.optimality import sentences
+from verifier.report.build import (count, failure_share_text, gap_text, num, point_text, solver_text,
+    ClaimEntry, ClaimReport, Report)
 
 
 def verdict_cell(row) -> str:
@@ -55,13 +57,27 @@ def summary_lines(section: ClaimReport) -> list[str]:
     if f is not None and f.pieces:
         lines.append(f"Fails on {count(len(f.pieces), 'piece')}; {failure_share_text(f)}:")
         lines += [f"  regime {p.regime}: {p.polyhedron.text()} (dimension {p.dim})" for p in f.pieces]
+    lines += optimality_lines(section)
     if section.counterexamples:
         lines.append("Counterexamples (best first):")
         lines += counterexample_lines(section)
     if section.redundant:
-        lines.append("Redundant bounds: " + ", ".join(f"{p.name} ({p.note})" for p in section.redundant))
+        names = [p.name for p in section.parts]   # a name on both sides (two versions): say whose
+        lines.append("Redundant bounds: " + ", ".join(
+            (f"{section.labels[p.side]}: " if names.count(p.name) > 1 and p.side < len(section.labels) else "")
+            + f"{p.name} ({p.note})" for p in section.redundant))
     lines += [gap_text(g) for g in section.gaps]
     return lines
+
+
+def optimality_lines(section: ClaimReport) -> list[str]:
+    """Where a refuted comparison holds and where it fails, exactly (verifier.regimes.optimality)."""
+    op = section.optimality
+    if op is None or not op.fails:
+        return []
+    holds, fails, within = sentences(op)
+    return [f"Holds exactly when: {holds}" + (f"   (within {within})" if within else ""),
+            f"Fails exactly when: {fails}"]
 
 
 def section_lines(section: ClaimReport, heading: str = "") -> list[str]:

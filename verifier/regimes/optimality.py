@@ -1,0 +1,383 @@
+"""The exact set of exponents where a claim holds (for `inner == outer`: where the scheme is optimal),
+and its complement, as simplified unions of polyhedra ready to paste into a review.
+
+Why exact: on each cell of the region-wise proof every compared expression is affine, so the claim
+holds on the cell exactly on the polyhedron cell & {every obligation} (regime_spec.obligations; for
+`==` that is cell & {L - R = 0}: the boundary where the two sides meet belongs to the holds set, with
+exactly the strictness the obligations have) and fails exactly on the failure pieces that
+verifier.regimes.failure already computes.  The cells partition the region, so the two unions partition it.
+
+Why simplified, and how (every step keeps the set exactly):
+1. normalise each constraint (normalised_atom): a constraint in one parameter gets coefficient 1
+   (`alpha < 1/2`, which chains into `1/3 < alpha < 1/2`); a constraint in several gets coprime
+   integer coefficients and constant (`gamma > 1 + alpha`, not `gamma/2 > 1/2 + alpha/2`;
+   `2*gamma > 1 + alpha`, not `gamma > 1/2 + alpha/2`).  Positive scaling never changes a half-space.
+2. drop redundant constraints (lp_shape.irredundant: exact Farkas certificates).
+3. merge two pieces whenever their union is convex (union_if_convex): the candidate hull keeps the
+   constraints of each piece that the other satisfies (relaxed when only the relaxed one holds); it
+   contains both pieces by construction, and it is accepted only when the exact set difference
+   hull \\ (P u Q) is empty, so an accepted merge is the union exactly.  Repeat until no pair merges.
+4. present each piece relative to the claim's region K when K is one polyhedron (relative_to):
+   a constraint implied by K and the piece's other constraints is dropped, so the printed piece P'
+   satisfies P' & K = P; the text says "within K".
+5. order: equalities first, then bounds on one parameter (lower before upper, so they chain), then
+   the rest; pieces by their interior points.
+Every printed piece is re-checked: its interior point (lp_shape.nice_point) is evaluated with the
+claim's own exact evaluator (claims.violated_at) and must hold (or fail) as labelled.
+
+Merging asks pairwise LP questions and set differences (exponential in the worst case): the number of
+pieces is limited by MAX_PIECES, and every loop checks the claim's budget.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from fractions import Fraction
+from math import gcd
+from typing import Sequence
+
+from verifier.claims.kinds import Claim, violated_at, witness_region
+from verifier.core.budget import Budget
+from verifier.expressions.expr import affine
+from verifier.expressions.region import TEXT, Atom, Notation, Polyhedron, constraint_text
+from verifier.geometry.lp import feasible
+from verifier.geometry.shape import difference, implied, irredundant, nice_point
+from verifier.regimes.spec import Spec, obligations, targets
+
+MAX_PIECES = 200   # raw pieces (cells that hold somewhere, failure pieces) before merging
+STAGE = "optimality region"
+
+
+@dataclass(frozen=True)
+class OptimalityRegion:
+    """Where the claim holds and where it fails, over `names` (the regime space; a slice claim's
+    substituted names are eliminated), each a union of `pieces` (tuples of atoms, printed
+    relative to `within` when that is set: the set is then within & piece)."""
+
+    names: tuple[str, ...]
+    within: tuple[Atom, ...] | None
+    holds: tuple[tuple[Atom, ...], ...]
+    fails: tuple[tuple[Atom, ...], ...]
+    holds_points: tuple[dict, ...]
+    fails_points: tuple[dict, ...]
+    substituted: tuple = ()        # a slice claim's (name, expression): the sets live on that slice
+
+    @property
+    def everywhere(self) -> bool:
+        return not self.fails
+
+    @property
+    def nowhere(self) -> bool:
+        return not self.holds
+
+
+# ---------------------------------------------------------------------------------------------
+# normalised constraints
+# ---------------------------------------------------------------------------------------------
+
+def normalised_atom(atom: Atom) -> Atom:
+    """The same half-space, scaled by a positive number: coefficient 1 when it bounds one parameter,
+    else coprime integers (coefficients and constant together)."""
+    coeffs = atom.form.coeffs
+    if not coeffs:
+        return atom
+    if len(coeffs) == 1:
+        k = 1 / abs(coeffs[0][1])
+    else:
+        values = [c for _, c in coeffs] + ([atom.form.const] if atom.form.const else [])
+        den = 1
+        for v in values:
+            den = den * v.denominator // gcd(den, v.denominator)
+        num = 0
+        for v in values:
+            num = gcd(num, int(v * den))
+        k = Fraction(den, num)
+    return Atom(affine([(n, c * k) for n, c in coeffs], atom.form.const * k), atom.strict)
+
+
+def _is_lower(atom: Atom) -> bool:
+    return atom.form.coeffs[0][1] > 0
+
+
+def ordered(atoms: Sequence[Atom], names: Sequence[str]) -> tuple[Atom, ...]:
+    """Normalised, deduplicated, in display order (module docstring, step 5); an equality's two
+    halves adjacent, the half whose last parameter has a positive coefficient first."""
+    atoms = list(dict.fromkeys(normalised_atom(a) for a in atoms if a.form.coeffs))
+    rank = {n: i for i, n in enumerate(names)}
+    forms = {a.form for a in atoms if not a.strict}
+    eqs, singles, rest, seen = [], [], [], set()
+    for a in atoms:
+        neg = Atom(affine([(n, -c) for n, c in a.form.coeffs], -a.form.const), False)
+        if not a.strict and neg.form in forms and len(a.form.coeffs) > 1:
+            if a.form in seen:
+                continue
+            first, second = (a, neg) if a.form.coeffs[-1][1] > 0 else (neg, a)
+            eqs += [first, second]
+            seen |= {a.form, neg.form}
+        elif len(a.form.coeffs) == 1:
+            singles.append(a)
+        else:
+            rest.append(a)
+    singles.sort(key=lambda a: (rank.get(a.form.coeffs[0][0], len(rank)), not _is_lower(a)))
+    rest.sort(key=lambda a: a.text())
+    return tuple(eqs + singles + rest)
+
+
+# ---------------------------------------------------------------------------------------------
+# exact merging
+# ---------------------------------------------------------------------------------------------
+
+def _valid_version(atom: Atom, other: Sequence[Atom], names) -> Atom | None:
+    if implied(atom, other, names):
+        return atom
+    if atom.strict and implied(atom.relaxed(), other, names):
+        return atom.relaxed()
+    return None
+
+
+def union_if_convex(p: Sequence[Atom], q: Sequence[Atom], names: Sequence[str]) -> tuple[Atom, ...] | None:
+    """The polyhedron equal to P u Q, or None when this test finds none (module docstring, step 3)."""
+    hull = []
+    for mine, other in ((p, q), (q, p)):
+        for a in mine:
+            v = _valid_version(a, other, names)
+            if v is not None:
+                hull.append(v)
+    hull = list(dict.fromkeys(hull))
+    if difference(hull, [tuple(p), tuple(q)], names):
+        return None
+    return irredundant(hull, names)[0]
+
+
+def merged(pieces: Sequence[Sequence[Atom]], names: Sequence[str], budget: Budget | None = None):
+    """Pieces (each non-empty) merged pairwise while some union is convex; irredundant each."""
+    out = [irredundant([normalised_atom(a) for a in p], names)[0] for p in pieces]
+    changed = True
+    while changed:
+        changed = False
+        for i in range(len(out)):
+            for j in range(i + 1, len(out)):
+                if budget is not None:
+                    budget.check(STAGE)
+                u = union_if_convex(out[i], out[j], names)
+                if u is not None:
+                    out[i] = u
+                    del out[j]
+                    changed = True
+                    break
+            if changed:
+                break
+    return out
+
+
+def _neg(a: Atom) -> Atom:
+    return Atom(affine([(n, -c) for n, c in a.form.coeffs], -a.form.const), False)
+
+
+def implicit_equalities(atoms: Sequence[Atom], names: Sequence[str]) -> list[Atom]:
+    """Non-strict atoms that hold with equality on the whole (non-empty) polyhedron."""
+    return [a for a in atoms if not a.strict and a.form.coeffs and implied(_neg(a), atoms, names)]
+
+
+def _on_hull(atoms: Sequence[Atom], eqs: Sequence[Atom]) -> list[Atom]:
+    """The atoms with each equality's variable eliminated (`gamma > 1 + alpha` on alpha = 0 reads
+    `gamma > 1`): the same set on the affine hull, which the equalities themselves keep.  An atom
+    that becomes a constant holds there (the polyhedron is not empty) and is dropped."""
+    from verifier.expressions.expr import substitute
+    out = list(atoms)
+    for e in eqs:
+        n, c = sorted(e.form.coeffs, key=lambda t: (len(e.form.coeffs) > 1, t[0]))[-1]
+        value = affine([(m, -d / c) for m, d in e.form.coeffs if m != n], -e.form.const / c)
+        out = [Atom(substitute(a.form, {n: value}), a.strict) for a in out]
+        out = [a for a in out if a.form.coeffs]
+    return out
+
+
+def relative_to(atoms: Sequence[Atom], context: Sequence[Atom], names: Sequence[str]) -> tuple[Atom, ...]:
+    """Fewer, simpler constraints with the same intersection with the context: R & context ==
+    atoms & context (module docstring, step 4).  Implicit equalities are stated as equalities and
+    eliminated from the other constraints; an equality is dropped only as a whole."""
+    full = list(atoms) + list(context)
+    eqs = _independent([normalised_atom(a) for a in implicit_equalities(full, names)], names)
+    forms = {e.form for e in eqs} | {_neg(e).form for e in eqs}
+    hull = [x for e in eqs for x in (e, _neg(e))]
+    keep = [normalised_atom(a) for a in _on_hull([a for a in atoms if normalised_atom(a).form not in forms
+                                                  or a.strict], eqs)]
+    keep = list(dict.fromkeys(keep))
+    i = 0
+    while i < len(keep):
+        rest = keep[:i] + keep[i + 1:]
+        if implied(keep[i], rest + hull + list(context), names):
+            keep = rest
+        else:
+            i += 1
+    pairs = [(e, _neg(e)) for e in eqs]
+    i = 0
+    while i < len(pairs):
+        rest = [x for k, pair in enumerate(pairs) if k != i for x in pair]
+        if all(implied(x, keep + rest + list(context), names) for x in pairs[i]):
+            del pairs[i]
+        else:
+            i += 1
+    return tuple([x for pair in pairs for x in pair] + keep)
+
+
+def _independent(eqs: Sequence[Atom], names) -> list[Atom]:
+    """A subset of the equalities that implies the rest (single-parameter ones first)."""
+    out: list[Atom] = []
+    for e in sorted(eqs, key=lambda a: (len(a.form.coeffs), a.text())):
+        both = [x for f in out for x in (f, _neg(f))]
+        if not (both and implied(e, both, names) and implied(_neg(e), both, names)):
+            out.append(e)
+    return out
+
+
+def _units(piece: Sequence[Atom]) -> list[tuple[Atom, ...]]:
+    """A piece's constraints with each equality's two halves as one unit (dropped together)."""
+    out, used = [], set()
+    for a in piece:
+        if a in used:
+            continue
+        partner = next((b for b in piece if not a.strict and not b.strict and b.form == _neg(a).form), None)
+        unit = (a, partner) if partner is not None and partner not in used else (a,)
+        used.update(unit)
+        out.append(unit)
+    return out
+
+
+def widened(pieces: Sequence[Sequence[Atom]], context: Sequence[Atom], names, budget=None):
+    """Drop a constraint (an equality as a whole) of a piece whenever the larger piece, within the
+    context, still lies in the union; then drop pieces the others cover.  The union is unchanged
+    (exact set differences), the text shorter; the pieces may then overlap."""
+    pieces = [list(p) for p in pieces]
+    for k in range(len(pieces)):
+        units, i = _units(pieces[k]), 0
+        while i < len(units):
+            if budget is not None:
+                budget.check(STAGE)
+            trial = [a for j, u in enumerate(units) if j != i for a in u]
+            if difference(trial + list(context), [tuple(p) for p in pieces], names):
+                i += 1
+            else:
+                del units[i]
+                pieces[k] = trial
+    k = 0
+    while k < len(pieces):
+        others = [tuple(p) for j, p in enumerate(pieces) if j != k]
+        if others and not difference(pieces[k] + list(context), others, names):
+            del pieces[k]
+        else:
+            k += 1
+    return [tuple(p) for p in pieces]
+
+
+# ---------------------------------------------------------------------------------------------
+# the holds / fails sets of a region-wise proof
+# ---------------------------------------------------------------------------------------------
+
+class NotExact(Exception):
+    """The sets cannot be stated exactly (undecided regimes, too many pieces, a failed re-check)."""
+
+
+def _raw_pieces(spec: Spec, regimes) -> tuple[list, list]:
+    tgts = targets(spec)
+    index = tuple(next(i for i, t in enumerate(tgts) if t.key == e.key) for e in spec.exprs)
+    holds, fails = [], []
+    for r in regimes:
+        for cell in r.cells:
+            status = getattr(cell.extra, "status", "")
+            if status == "proved":
+                holds.append(tuple(cell.atoms))
+                continue
+            if status != "refuted":
+                raise NotExact(f"regime {r.index} is undecided")
+            forms = tuple(cell.forms[i] for i in index)
+            extra, empty = [], False
+            for ob in obligations(spec, forms):
+                if not ob.form.coeffs:
+                    empty = empty or not ob.holds({})
+                else:
+                    extra.append(ob)
+            if not empty and feasible(list(cell.atoms) + extra, spec.names) is not None:
+                holds.append(tuple(cell.atoms) + tuple(extra))
+            fails += [tuple(f.polyhedron.atoms) for f in cell.extra.failures]
+    if len(holds) + len(fails) > MAX_PIECES:
+        raise NotExact(f"{len(holds) + len(fails)} pieces before merging (limit {MAX_PIECES})")
+    return holds, fails
+
+
+def _recheck(claim: Claim, region, pieces, within, names, holds: bool) -> tuple[dict, ...]:
+    points = []
+    for p in pieces:
+        atoms = list(p) + list(within or ())
+        point = nice_point(atoms, names)
+        if point is None or not region.contains(point) or violated_at(claim, point) == holds:
+            raise NotExact("an interior point of a printed piece does not re-check: an engine defect")
+        points.append(point)
+    return tuple(points)
+
+
+def _key(atoms, names):
+    point = nice_point(list(atoms), names) or {}
+    return tuple(point.get(n, 0) for n in names)
+
+
+def optimality_region(claim: Claim, spec: Spec, regimes, region_pieces, budget: Budget | None = None):
+    """(OptimalityRegion, '') for a comparison claim, or (None, why not)."""
+    if spec.kind != "compare":
+        return None, ""
+    names = spec.names
+    try:
+        holds, fails = _raw_pieces(spec, regimes)
+        holds, fails = merged(holds, names, budget), merged(fails, names, budget)
+        within = None
+        if len(region_pieces) == 1:
+            within = tuple(irredundant([normalised_atom(a) for a in region_pieces[0]], names)[0])
+            holds = [relative_to(p, within, names) for p in holds]
+            fails = [relative_to(p, within, names) for p in fails]
+        holds = widened(holds, within or (), names, budget)
+        fails = widened(fails, within or (), names, budget)
+        holds = sorted((ordered(p, names) for p in holds), key=lambda p: _key(p + (within or ()), names))
+        fails = sorted((ordered(p, names) for p in fails), key=lambda p: _key(p + (within or ()), names))
+        region = witness_region(claim)
+        hp = _recheck(claim, region, holds, within, names, True)
+        fp = _recheck(claim, region, fails, within, names, False)
+    except NotExact as exc:
+        return None, f"exact holds/fails sets not shown: {exc}"
+    return OptimalityRegion(names, ordered(within, names) if within is not None else None,
+                            tuple(holds), tuple(fails), hp, fp, tuple(claim.subst)), ""
+
+
+def contains(pieces, within, point) -> bool:
+    """Is the point in within & (union of pieces)?  (For re-checks; exact.)"""
+    if within is not None and not Polyhedron(tuple(within)).contains(point):
+        return False
+    return any(Polyhedron(tuple(p)).contains(point) for p in pieces)
+
+
+def union_text(pieces, notation: Notation = TEXT, joiner: str = " or ", nowhere: str = "nowhere") -> str:
+    """`0 <= alpha <= 1/2 or alpha == 1`; a piece of several constraints in parentheses when
+    there are several pieces."""
+    if not pieces:
+        return nowhere
+    texts = [constraint_text(p, notation, reorder=True) for p in pieces]
+    if len(texts) == 1:
+        return texts[0]
+    return joiner.join(f"({t})" if len(p) > 1 and not _is_chain(p) else t for t, p in zip(texts, pieces))
+
+
+def _is_chain(p) -> bool:
+    """One parameter's bounds (`1 < alpha < 2`, `alpha == 1`) read without parentheses."""
+    return len({a.form.coeffs[0][0] for a in p}) == 1 and all(len(a.form.coeffs) == 1 for a in p)
+
+
+def sentences(op: OptimalityRegion, notation: Notation = TEXT, joiner: str = " or ") -> tuple[str, str, str]:
+    """(holds, fails, within) as text in the notation: what the renderers print."""
+    within = constraint_text(op.within, notation, reorder=True) if op.within else ""
+    if op.substituted:   # the equalities of the slice, printed as the region prints them
+        from verifier.expressions.expr import param
+        from verifier.expressions.region import atoms_of
+        eqs = [a for n, e in op.substituted for a in atoms_of(param(n), "==", e)]
+        on = constraint_text(eqs, notation)
+        within = f"{within}{notation.joiner}{on}" if within else on
+    return (union_text(op.holds, notation, joiner), union_text(op.fails, notation, joiner), within)
