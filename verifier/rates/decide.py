@@ -1,0 +1,200 @@
+"""Decide a RateClaim: proved, refuted (an exponent point AND a rate tuple) or unknown.
+
+The soundness argument, in the order of the work:
+1. the claim's exponent region must have a point (an empty one is bad input, never a vacuous proof);
+2. the claim becomes a plan of obligations (queries.py), which together are the claim: every
+   constraint of the containing region for every rate tuple or corner of the other, or (max) the
+   scalar claim on the support formula (support.py) plus the well-formedness it relies on;
+3. each obligation is one verifier.smt query per backend; verifier.verdicts.backends turns the answers
+   into its status (only unsat from every backend asked proves; a model must pass the exact re-check
+   of queries.py, in the claim's own region, to refute); a well-formedness obligation whose query is
+   sat is unknown, not refuted;
+4. verifier.verdicts.all_of combines them (unknown dominates proved, a re-checked refutation wins);
+5. the witness shown is chosen by verifier.witness.best_point (small denominators, strictly inside R);
+6. everything runs in the claim's Budget; running out (or a named size limit) is unknown.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, replace
+from fractions import Fraction
+
+from verifier.budget import Budget, OutOfBudget
+from verifier.claims import Side, relation, violated_at, violation_query
+from verifier.errors import RegionError
+from verifier.expr import format_number, to_text
+from verifier.prove import Verdict, prove
+from verifier.smt import Query, check
+from verifier.verdicts import PROVED, REFUTED, UNKNOWN, Obligation, all_of, backends
+from verifier.witness import best_point
+
+from . import queries as Q
+from .claims import RateClaim
+from .region import HRegion, VRegion
+from .support import optimum_at, support_expr
+
+STAGE = "rate region query"
+
+
+@dataclass(frozen=True)
+class RateVerdict:
+    claim: RateClaim
+    status: str
+    obligations: tuple[Obligation, ...] = ()
+    witness: Q.RateWitness | None = None
+    detail: str = ""
+    scalar: Verdict | None = None     # the support-formula claim behind a 'max' claim
+    seconds: float = 0.0
+
+    def lines(self) -> list[str]:
+        out = [f"{self.claim.name or 'claim'} -- {self.status}", f"    {self.claim.text()}"]
+        if self.detail:
+            out.append(f"    note: {self.detail}")
+        if self.witness is not None:
+            out += ["    " + line for line in self.witness.lines()]
+        return out
+
+    def __str__(self) -> str:
+        return "\n".join(self.lines())
+
+
+def exponents_of(claim: RateClaim) -> tuple[str, ...]:
+    return tuple(claim.params)
+
+
+def plan(claim: RateClaim) -> list[Q.Check]:
+    """The checks whose violation queries together decide a set-kind claim (or the well-formedness
+    checks of a 'max' claim)."""
+    R, exps = claim.region, exponents_of(claim)
+    a, b = claim.first, claim.second
+    if claim.kind == "region contains":
+        point = VRegion("the point", a.rates, (claim.point,))
+        return Q.corners_inside_h(point, a, R, exps, "point")
+    if claim.kind == "region max":
+        if isinstance(a, HRegion):
+            return Q.zero_inside(a, R, exps)
+        return Q.corners_nonnegative(a, R, exps) if a.free_disposal else []
+    pairs = [(a, b)] if claim.kind == "region subset" else [(a, b), (b, a)]
+    out: list[Q.Check] = []
+    for region in (a, b):
+        if isinstance(region, VRegion) and region.free_disposal:
+            out += Q.corners_nonnegative(region, R, exps)
+    for inner, outer in pairs:
+        out += inclusion(inner, outer, R, exps)
+    return out
+
+
+def inclusion(inner, outer, R, exps) -> list[Q.Check]:
+    if isinstance(outer, HRegion):
+        if isinstance(inner, HRegion):
+            return Q.h_inside_h(inner, outer, R, exps)
+        return Q.corners_inside_h(inner, outer, R, exps)
+    return Q.h_inside_corners(inner, outer, R, exps)
+
+
+def run_check(c: Q.Check, solvers, budget: Budget) -> Obligation:
+    """One obligation from one check (rule 2 of verifier.verdicts for the backends)."""
+    try:
+        answers = [check(c.query, s, budget.timeout(STAGE)) for s in solvers]
+    except OutOfBudget as exc:
+        return Obligation(c.what, UNKNOWN, str(exc), query=c.query)
+    rechecks = {a.solver: a.status == "sat" and c.valid(a.model) for a in answers}
+    status, decisive, note = backends(answers, rechecks)
+    if status != REFUTED:
+        return Obligation(c.what, status, note, query=c.query)
+    point = dict(decisive.model)
+    story = c.witness(point).story
+    if not c.refutes:
+        return Obligation(c.what, UNKNOWN, f"{story} (at {_at(c.split(point)[0])})", query=c.query)
+    return Obligation(c.what, REFUTED, note or story, lambda: c.valid(point), c.query, (c, point))
+
+
+def _at(theta) -> str:
+    return ", ".join(f"{k} = {format_number(v)}" for k, v in theta.items())
+
+
+def best_witness(c: Q.Check, point, R, solver, budget: Budget) -> Q.RateWitness:
+    """The refuting pair to print: the ranking of verifier.witness over (exponents, rates)."""
+    label = "solver model"
+    try:
+        got = best_point(lambda region, grid: replace(c.query, region=region, grid=grid), c.valid,
+                         c.names, R, solver, budget)
+        if got is not None:
+            point, label = got
+    except OutOfBudget:
+        label = "solver model: the search for a simpler point ran out of time"
+    w = c.witness(point)
+    inside = R.relative_interior().contains(w.theta)
+    return replace(w, strictly_inside=inside, origin=label)
+
+
+def ensure_nonempty(claim: RateClaim, solver: str, budget: Budget) -> str:
+    answer = check(Query(claim.region, (), None, exponents_of(claim)), solver, budget.timeout("region check"))
+    if answer.status == "unsat":
+        raise RegionError(f"the region '{claim.region.text()}' of claim '{claim.name or claim.text()}' is empty")
+    return answer.status
+
+
+def scalar_claim(claim: RateClaim):
+    """The 'max' claim as an ordinary verifier claim on the support formula (support.py)."""
+    h = support_expr(claim.first, claim.weights)
+    side = Side(h, f"max of {claim.weights_text()} over {claim.first.name}")
+    return relation(side, claim.rel, Side(claim.formula), claim.region, claim.name)
+
+
+def max_witness(claim: RateClaim, verdict: Verdict) -> tuple[Q.RateWitness | None, str]:
+    """The optimising rate tuple at the scalar counterexample, re-derived by exact LP (a second,
+    independent computation of the maximum: a disagreement with the dual formula is reported)."""
+    cex = verdict.counterexample
+    theta = {n: Fraction(cex.point[n]) for n in exponents_of(claim) if n in cex.point}
+    best = optimum_at(claim.first, claim.weights, theta)
+    if best is None or best.value != cex.lhs_value:
+        return None, (f"ENGINE DEFECT: the exact optimum at {_at(theta)} is "
+                      f"{'undefined' if best is None else format_number(best.value)}, the support "
+                      f"formula says {format_number(cex.lhs_value)}; please report it")
+    story = (f"max of {claim.weights_text()} over {claim.first.name} here is {format_number(best.value)} "
+             f"(attained at this rate tuple; {best.certificate}); {to_text(claim.formula)} = "
+             f"{format_number(cex.rhs_value)}, so '{claim.rel}' fails")
+    return Q.RateWitness(theta, best.rates, story, cex.strictly_inside, cex.origin), ""
+
+
+def decide(claim: RateClaim, solver: str = "z3", timeout: float = 30.0, cross_check: bool = False,
+           budget: Budget | None = None, scalar_decider=None) -> RateVerdict:
+    """The verdict (module docstring).  `scalar_decider(claim, budget)`: how a 'max' claim's scalar
+    claim is decided (default verifier.prove.prove; the workbench passes the region-wise prover)."""
+    budget = Budget.of(budget, timeout)
+    solvers = ("z3", "cvc5") if cross_check else (solver,)
+    try:
+        region_status = ensure_nonempty(claim, solvers[0], budget)
+        checks = plan(claim)
+    except OutOfBudget as exc:
+        return RateVerdict(claim, UNKNOWN, (), None, str(exc), seconds=budget.spent())
+    obligations = [run_check(c, solvers, budget) for c in checks]
+    scalar = None
+    if claim.kind == "region max":
+        try:
+            sc = scalar_claim(claim)
+        except OutOfBudget as exc:
+            return RateVerdict(claim, UNKNOWN, tuple(obligations), None, str(exc), seconds=budget.spent())
+        decider = scalar_decider or (lambda c, b: prove(c, solver, timeout, cross_check, budget=b))
+        scalar = decider(sc, budget)
+        cex = getattr(scalar, "counterexample", None)
+        obligations.append(Obligation(f"the maximum {claim.rel} {to_text(claim.formula)}", scalar.status,
+                                      scalar.detail, (lambda: cex is not None and violated_at(sc, cex.point)),
+                                      violation_query(sc), scalar))
+    combined = all_of(obligations)
+    status, notes = combined.status, list(combined.notes)
+    if status == PROVED and region_status != "sat":
+        status, notes = UNKNOWN, ["the solver could not decide whether the region is empty"]
+    witness = None
+    if status == REFUTED:
+        notes = [n for n in notes if "DISAGREE" in n]
+        first = next(ob for ob in obligations if ob.status == REFUTED and ob.recheck and ob.recheck())
+        if isinstance(first.evidence, tuple):
+            c, point = first.evidence
+            witness = best_witness(c, point, claim.region, solvers[0], budget)
+        else:
+            witness, defect = max_witness(claim, first.evidence)
+            if defect:
+                status, notes = UNKNOWN, [defect]
+    return RateVerdict(claim, status, tuple(obligations), witness, "; ".join(notes), scalar, budget.spent())
