@@ -44,6 +44,7 @@ from verifier.parse import parse_expr, parse_region
 from verifier.piecewise import Piece, PiecewiseCheck, check_piecewise
 from verifier.region import Region
 
+from . import rate_case
 from .expansion import expand
 from .output_target import shown_path
 from .statements import Part, did_you_mean, explained, listing, parse_sentence, shifted
@@ -52,7 +53,7 @@ RESERVED = {"inner", "outer"}
 CLAIM_KEYS = {"name", "statement", "where", "expect"}
 VERDICTS = ("proved", "refuted", "unknown")
 TOP_KEYS = {"title", "scenario", "source", "parameters", "assume", "outer", "inner", "formulas",
-            "claims", "network"}
+            "claims", "network", "rates", "region"}
 ASSUME_KEYS = {"region"}
 REGIME_KEYS = {"regimes"}
 NAME_RE = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")
@@ -87,6 +88,8 @@ class Case:
     claims: list[CaseClaim]
     regime_checks: list[PiecewiseCheck] = field(default_factory=list)
     piecewise: dict = field(default_factory=dict)    # name -> PiecewiseCheck (pieces + min/max form)
+    rates: dict = field(default_factory=dict)        # rate name -> meaning (workbench.rate_case)
+    regions: dict = field(default_factory=dict)      # region name -> verifier.rates HRegion / VRegion
     raw: dict = field(default_factory=dict)
     _resolving: tuple = field(default=(), repr=False, compare=False)
 
@@ -324,6 +327,7 @@ def build_case(path: str, text: str, data: dict, solver="z3", timeout=30.0, budg
     for kind in ("outer", "inner"):
         _bounds(rd, tables[kind], kind, case, solver, timeout, budget)
     _formulas(rd, tables["formulas"], case)
+    rate_case.load(rd, data, case)
     claims = data.get("claims", [])
     if isinstance(claims, dict):
         raise rd.fail("claims", "expected an array of tables: write each claim under [[claims]] "
@@ -526,8 +530,9 @@ def _claim(rd: _Reader, index: int, spec, case: Case) -> CaseClaim:
     if "statement" not in spec:
         raise rd.fail(key, "each [[claims]] entry needs statement = \"...\"")
     text = rd.string(f"{key}.statement", spec["statement"], "the claim in quotes")
+    about_regions = rate_case.is_region_sentence(text, case)
     try:
-        s = parse_sentence(text)
+        s = None if about_regions else parse_sentence(text)
     except InputError as err:
         raise rd.fail(f"{key}.statement", err, text) from None
     region = case.assume
@@ -543,6 +548,9 @@ def _claim(rd: _Reader, index: int, spec, case: Case) -> CaseClaim:
     if expect is not None and expect not in VERDICTS:
         found = f"'{expect}'" if isinstance(expect, str) else kind_of(expect)
         raise rd.fail(f"{key}.expect", f"expected one of {', '.join(VERDICTS)}, found {found}")
+    if about_regions:
+        return CaseClaim(rate_case.rate_claim(rd, f"{key}.statement", text, region, name, case), text,
+                         expect, key)
     claim = _make_claim(rd, s, text, f"{key}.statement", region, name, case)
     result = CaseClaim(claim, text, expect, key)
     _check_split(rd, f"{key}.statement", claim, case)

@@ -60,6 +60,7 @@ class Outcome:
     notes: list = field(default_factory=list)        # why unknown, loud disagreements
     obligations: tuple = ()
     seconds: float = 0.0
+    rate_witness: object = None                      # a rate-region claim's refuting pair (exponents, rates)
 
     @property
     def verdicts(self) -> list:
@@ -176,6 +177,10 @@ def _part(case_claim, label, sub, method, solver, budget, cross_check, workers, 
 def decide(case_claim, solver="z3", timeout=30.0, cross_check=False, method="smt", budget=None,
            workers=1, progress=None) -> Outcome:
     """Decide a case claim by its plan of obligations (module docstring); `budget` in seconds."""
+    from verifier.rates.claims import RateClaim
+    if isinstance(case_claim.claim, RateClaim):   # claims about rate regions: workbench.rate_decide
+        from .rate_decide import decide_rates
+        return decide_rates(case_claim, solver, timeout, cross_check, method, budget, workers, progress)
     clock = Budget.of(None, timeout, budget)
     out = Outcome(case_claim, UNKNOWN)
     obligations = _coverage(case_claim, solver, clock)

@@ -135,6 +135,14 @@ def ensure_nonempty(claim: RateClaim, solver: str, budget: Budget) -> str:
     return answer.status
 
 
+def first_counterexample(result):
+    """The counterexample of a one-shot Verdict or the best one of a region-wise RegimeProof."""
+    if hasattr(result, "counterexample"):
+        return result.counterexample
+    found = getattr(result, "counterexamples", None)
+    return found[0] if found else None
+
+
 def scalar_claim(claim: RateClaim):
     """The 'max' claim as an ordinary verifier claim on the support formula (support.py)."""
     h = support_expr(claim.first, claim.weights)
@@ -145,7 +153,7 @@ def scalar_claim(claim: RateClaim):
 def max_witness(claim: RateClaim, verdict: Verdict) -> tuple[Q.RateWitness | None, str]:
     """The optimising rate tuple at the scalar counterexample, re-derived by exact LP (a second,
     independent computation of the maximum: a disagreement with the dual formula is reported)."""
-    cex = verdict.counterexample
+    cex = first_counterexample(verdict)
     theta = {n: Fraction(cex.point[n]) for n in exponents_of(claim) if n in cex.point}
     best = optimum_at(claim.first, claim.weights, theta)
     if best is None or best.value != cex.lhs_value:
@@ -178,7 +186,7 @@ def decide(claim: RateClaim, solver: str = "z3", timeout: float = 30.0, cross_ch
             return RateVerdict(claim, UNKNOWN, tuple(obligations), None, str(exc), seconds=budget.spent())
         decider = scalar_decider or (lambda c, b: prove(c, solver, timeout, cross_check, budget=b))
         scalar = decider(sc, budget)
-        cex = getattr(scalar, "counterexample", None)
+        cex = first_counterexample(scalar)
         obligations.append(Obligation(f"the maximum {claim.rel} {to_text(claim.formula)}", scalar.status,
                                       scalar.detail, (lambda: cex is not None and violated_at(sc, cex.point)),
                                       violation_query(sc), scalar))
