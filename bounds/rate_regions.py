@@ -26,8 +26,11 @@ MAX_MESSAGE_SUBSETS = 1023    # 2^10 - 1: cut-set regions of at most ten message
 
 
 def as_rate_region(name: str, rows: Sequence[Inequality] | Mapping[str, Inequality],
-                   rates: Sequence[str] | None = None, nonnegative: bool = True) -> HRegion:
-    """An H-form from bounds/ inequalities (a mapping keeps its keys as labels)."""
+                   rates: Sequence[str] | None = None, nonnegative: bool = True,
+                   conditions: list | None = None) -> HRegion:
+    """An H-form from bounds/ inequalities (a mapping keeps its keys as labels).  A row without rates
+    (0 <= c(theta), left by an elimination) is an InputError, or is appended to `conditions` when a
+    list is given: the region is then the stated one only where every condition holds."""
     labelled = list(rows.items()) if isinstance(rows, Mapping) else [("", r) for r in rows]
     found = sorted(set().union(*(r.variables() for _, r in labelled))) if labelled else []
     rates = tuple(rates) if rates is not None else tuple(found)
@@ -41,6 +44,9 @@ def as_rate_region(name: str, rows: Sequence[Inequality] | Mapping[str, Inequali
         if not row.coeffs:
             if obviously_nonnegative(row.rhs):
                 continue     # 0 <= (x)^+ ...: says nothing about the rates
+            if conditions is not None:
+                conditions.append(row.rhs)
+                continue
             raise InputError(f"region '{name}': the condition 0 <= {row.rhs} involves no rate; state it "
                              "in the claim's region instead")
         out.append(RateInequality(row.coeffs, row.rhs, label))
@@ -70,22 +76,28 @@ def tin_rate_region(a: Sequence[Sequence[object]], name: str = "TIN", prefix: st
 
 
 def projected_rate_region(name: str, rows: Sequence[Inequality], keep: Sequence[str],
-                          nonnegative: bool = True) -> HRegion:
-    """The shadow on the rates `keep` of a region in more variables (auxiliary split rates)."""
+                          nonnegative: bool = True) -> tuple[HRegion, tuple]:
+    """The shadow on the rates `keep` of a region in more variables (auxiliary split rates), and the
+    exponent conditions c(theta) >= 0 under which the shadow is non-empty as stated (put them in the
+    claim's region: outside them the original region is empty)."""
     others = sorted(set().union(*(r.variables() for r in rows)) - set(keep))
-    return as_rate_region(name, eliminate(rows, others, nonnegative=nonnegative), keep, nonnegative)
+    conditions: list = []
+    region = as_rate_region(name, eliminate(rows, others, nonnegative=nonnegative), keep, nonnegative,
+                            conditions)
+    return region, tuple(conditions)
 
 
 def cutset_rate_region(network: Network, messages: Iterable[str] | None = None, name: str = "cut-set",
-                       prefix: str = "d_") -> HRegion:
+                       prefix: str = "d_", rates: Mapping[str, str] | None = None) -> HRegion:
     """The cut-set region of several messages: for every nonempty set S of them, the sum of their
     rates is at most the smallest cut separating all of S's sources from all of S's destinations
-    (bounds.cutset.sum_cut_bounds; a set with no such cut gives no facet)."""
+    (bounds.cutset.sum_cut_bounds; a set with no such cut gives no facet).  `rates` maps message
+    names to rate names (default: prefix + message name)."""
     chosen = [m.name for m in network.messages] if messages is None else list(messages)
     if 2 ** len(chosen) - 1 > MAX_MESSAGE_SUBSETS:
         raise InputError(f"a cut-set region of {len(chosen)} messages has {2 ** len(chosen) - 1} sets of "
                          f"messages (limit {MAX_MESSAGE_SUBSETS})")
-    rates = {m: f"{prefix}{m}" for m in chosen}
+    rates = {m: (rates or {}).get(m, f"{prefix}{m}") for m in chosen}
     for m, r in rates.items():
         if not r.isidentifier():
             raise InputError(f"message '{m}' does not make a rate name ('{r}')")

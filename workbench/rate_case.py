@@ -72,7 +72,7 @@ def _rates(rd, value, case) -> dict:
 
 def _names(case) -> list[str]:
     """Names a right side may use: parameters, then bounds and formulas (resolved afterwards)."""
-    return list(case.parameters) + [n for n in case.named() if n not in case.piecewise]
+    return list(case.parameters) + list(case.named())
 
 
 def _resolved(rd, key: str, expr, case, text: str):
@@ -185,8 +185,7 @@ def _rate_claim(rd, key, text, region, name, case):
         if rel is None:
             raise ParseError("expected a relation (==, <=, >=, <, >) after the region's name", text, m.end())
         formula_text = text[rel.end():]
-        names = list(case.parameters) + [n for n in case.named() if n not in case.piecewise]
-        formula = _offset(lambda: parse_expr(formula_text, names), text, rel.end())
+        formula = _offset(lambda: parse_expr(formula_text, _names(case)), text, rel.end())
         formula = _resolved(rd, key, formula, case, text)
         op = {"=": "==", "≤": "<=", "≥": ">="}.get(rel.group(), rel.group())
         return RC.max_of(a, weights, op, formula, region, name)

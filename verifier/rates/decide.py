@@ -167,9 +167,10 @@ def max_witness(claim: RateClaim, verdict: Verdict) -> tuple[Q.RateWitness | Non
 
 
 def decide(claim: RateClaim, solver: str = "z3", timeout: float = 30.0, cross_check: bool = False,
-           budget: Budget | None = None, scalar_decider=None) -> RateVerdict:
+           budget: Budget | None = None, scalar_decider=None, improve_witness: bool = True) -> RateVerdict:
     """The verdict (module docstring).  `scalar_decider(claim, budget)`: how a 'max' claim's scalar
-    claim is decided (default verifier.prove.prove; the workbench passes the region-wise prover)."""
+    claim is decided (default verifier.prove.prove; the workbench passes the region-wise prover).
+    `improve_witness=False` keeps the solver's refuting pair (re-checked all the same): for tests."""
     budget = Budget.of(budget, timeout)
     solvers = ("z3", "cvc5") if cross_check else (solver,)
     try:
@@ -184,7 +185,7 @@ def decide(claim: RateClaim, solver: str = "z3", timeout: float = 30.0, cross_ch
             sc = scalar_claim(claim)
         except OutOfBudget as exc:
             return RateVerdict(claim, UNKNOWN, tuple(obligations), None, str(exc), seconds=budget.spent())
-        decider = scalar_decider or (lambda c, b: prove(c, solver, timeout, cross_check, budget=b))
+        decider = scalar_decider or (lambda c, b: prove(c, solver, timeout, cross_check, improve_witness, b))
         scalar = decider(sc, budget)
         cex = first_counterexample(scalar)
         obligations.append(Obligation(f"the maximum {claim.rel} {to_text(claim.formula)}", scalar.status,
@@ -200,7 +201,9 @@ def decide(claim: RateClaim, solver: str = "z3", timeout: float = 30.0, cross_ch
         first = next(ob for ob in obligations if ob.status == REFUTED and ob.recheck and ob.recheck())
         if isinstance(first.evidence, tuple):
             c, point = first.evidence
-            witness = best_witness(c, point, claim.region, solvers[0], budget)
+            witness = best_witness(c, point, claim.region, solvers[0], budget) if improve_witness else \
+                replace(c.witness(point), strictly_inside=claim.region.relative_interior().contains(
+                    c.split(point)[0]))
         else:
             witness, defect = max_witness(claim, first.evidence)
             if defect:

@@ -51,7 +51,7 @@ def _parse(text: str, start: int, source: str, rates, exponents) -> Expr:
         pos = start + (err.position or 0)
         m = re.match(r"unknown parameter '([^']*)'", err.message)
         if isinstance(err, UnknownNameError) and m:
-            raise UnknownNameError(f"unknown name '{m[1]}' (rates: {_listing(rates)}; exponents: "
+            raise UnknownNameError(f"unknown name '{m[1]}' (rates: {_listing(rates)}; exponents and named formulas: "
                                    f"{_listing(exponents)})", source, pos) from None
         raise type(err)(err.message, source, pos) from None
 
