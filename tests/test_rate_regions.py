@@ -226,3 +226,20 @@ def test_dual_vertices_of_the_mac_sum():
     # max d1 + d2 over MAC: dual vertices y = (1, 1, 0) (the two single-user bounds) and (0, 0, 1)
     got = {v.multipliers for v in dual_vertices(MAC, (("d1", F(1)), ("d2", F(1))))}
     assert got == {(1, 1, 0), (0, 0, 1)}
+
+
+def test_free_disposal_never_covers_negative_rates():
+    # without d2 >= 0 this MAC-like region has the vertex (a1, -1), dominated by the corner
+    # (a1, (a2 - a1)^+) but outside the down-closure, which stays in the orthant; its other vertices
+    # (0, a2), (0, a1 - 1), (a1, (a2 - a1)^+), ((a1 - a2)^+, a2) are covered (hand derivation)
+    tilted = HRegion("tilted", RATES, tuple(parse_inequality(r, RATES, EXPS) for r in
+                                            ["d1 <= a1", "d2 <= a2", "d1 + d2 <= max(a1, a2)",
+                                             "d1 + d2 >= a1 - 1", "-d1 <= 0"]), False)
+    v = run(RC.subset(tilted, SD, parse_region("a1 >= 2, a2 >= 0")))
+    assert v.status == "refuted" and v.witness.rates["d2"] < 0 and tilted.contains(v.witness.theta, v.witness.rates)
+
+
+def test_rate_order_of_the_corner_region_does_not_matter():
+    swapped = VRegion("SD'", ("d2", "d1"), tuple((c[1], c[0]) for c in SD.corners), True)
+    assert run(RC.equal(swapped, MAC, QUADRANT)).status == "proved"
+    assert run(RC.subset(MAC, swapped, QUADRANT)).status == "proved"

@@ -185,9 +185,12 @@ def zero_inside(a: HRegion, R: Region, exps) -> list[Check]:
 
 
 def _dominated_by(x, corner, dispose: bool) -> Expr:
-    """> 0 exactly when the corner does not cover x (x <= corner with disposal, x == corner without)."""
+    """> 0 exactly when the corner does not cover x: with disposal 0 <= x <= corner (a point of the
+    corner's down-closure), without it x == corner."""
     gaps = [add(xi, scale(-1, ci)) for xi, ci in zip(x, corner)]
-    return max_(*gaps) if dispose else max_(*(abs_(g) for g in gaps))
+    if dispose:
+        return max_(*gaps, *(scale(-1, xi) for xi in x))
+    return max_(*(abs_(g) for g in gaps))
 
 
 def outside_vertex(a: HRegion, c: VRegion, theta) -> dict | None:
@@ -230,7 +233,8 @@ def h_inside_corners(a: HRegion, c: VRegion, R: Region, exps) -> list[Check]:
     for tight, x in basic_solutions(a):
         feasible = tuple((add(*(scale(k, x[a.rates.index(r)]) for r, k in q.coeffs)), "<=", q.bound)
                          for q in rows)
-        uncovered = tuple((_dominated_by(x, corner, c.free_disposal), ">", lift(0)) for corner in c.corners)
+        ordered = [[dict(zip(c.rates, corner))[r] for r in a.rates] for corner in c.corners]
+        uncovered = tuple((_dominated_by(x, corner, c.free_disposal), ">", lift(0)) for corner in ordered)
         query = Query(R, feasible + uncovered, None, exps)
 
         def valid(p):
