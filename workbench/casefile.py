@@ -9,6 +9,7 @@ A case file is TOML in a layout of our own:
     [inner]                  named inner bounds / schemes; `inner` means their max
     [formulas]               named formulas (conjectures, published curves)
     [[claims]]               statement = "inner == outer", where = "...", name = "...", expect = "proved"
+    [rates], [region.NAME]   rate regions and their claims (workbench/rate_case.py)
 
 A bound may be given regime by regime, as `hk = "1 - alpha if alpha <= 1/2; alpha if alpha > 1/2"` or
 `hk = { regimes = [["1 - alpha", "alpha <= 1/2"], ...] }`.  Such a name stays a placeholder until a
