@@ -167,3 +167,10 @@ def test_a_regime_wise_bound_cannot_be_a_facet(tmp_path, capsys):
     text = text.replace('"d1 + d2 <= top"', '"d1 + d2 <= hk"')
     line = one_error(capsys, "check", write(tmp_path, text))
     assert "given regime by regime" in line
+
+
+def test_an_unbounded_weighted_sum_is_bad_input_when_read(tmp_path, capsys):
+    text = CASE.replace('"max d1 + d2 over cap == top"', '"max d1 + d2 over half == top"')
+    text = text.replace("[[claims]]", '[region.half]\ninequalities = ["d1 <= a1"]\n[[claims]]', 1)
+    line = one_error(capsys, "check", write(tmp_path, text))
+    assert "claims[2].statement" in line and "unbounded over region 'half'" in line

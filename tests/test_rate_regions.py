@@ -243,3 +243,9 @@ def test_rate_order_of_the_corner_region_does_not_matter():
     swapped = VRegion("SD'", ("d2", "d1"), tuple((c[1], c[0]) for c in SD.corners), True)
     assert run(RC.equal(swapped, MAC, QUADRANT)).status == "proved"
     assert run(RC.subset(MAC, swapped, QUADRANT)).status == "proved"
+
+
+def test_text_helpers_build_the_same_regions():
+    from verifier.rates.text import h_region, v_region
+    assert h_region("MAC", RATES, EXPS, ["d1 <= a1", "d2 <= a2", "d1 + d2 <= max(a1, a2)"]) == MAC
+    assert v_region("SD", RATES, EXPS, ["(a1, (a2 - a1)^+)", "((a1 - a2)^+, a2)"], True) == SD

@@ -188,7 +188,9 @@ def _rate_claim(rd, key, text, region, name, case):
         formula = _offset(lambda: parse_expr(formula_text, _names(case)), text, rel.end())
         formula = _resolved(rd, key, formula, case, text)
         op = {"=": "==", "≤": "<=", "≥": ">="}.get(rel.group(), rel.group())
-        return RC.max_of(a, weights, op, formula, region, name)
+        claim = RC.max_of(a, weights, op, formula, region, name)
+        _bounded(claim)
+        return claim
     head = HEAD_RE.match(text)
     a = _region_named(rd, key, head["a"], case, text)
     rest = text[head.end():]
@@ -209,6 +211,17 @@ def _rate_claim(rd, key, text, region, name, case):
     if form[1] in ("subset", "⊆"):
         return RC.subset(a, b, region, name)
     return RC.equal(a, b, region, name)
+
+
+def _bounded(claim) -> None:
+    """An unbounded weighted sum (no facet caps it) is bad input, said when the file is read; a dual
+    too large to enumerate is left to the verdict (unknown, naming the size limit)."""
+    from verifier.budget import OutOfBudget
+    from verifier.rates.support import support_expr
+    try:
+        support_expr(claim.first, claim.weights)
+    except OutOfBudget:
+        pass
 
 
 def _offset(parse, text: str, start: int):

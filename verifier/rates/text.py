@@ -20,7 +20,7 @@ from verifier.errors import InputError, NonlinearError, ParseError, UnknownNameE
 from verifier.expr import Affine, Expr, add, affine, params, scale
 from verifier.parse import parse_expr
 
-from .region import RateInequality
+from .region import HRegion, RateInequality, VRegion
 
 RELATION = re.compile(r"<=|>=|≤|≥|==|=|<|>")
 
@@ -158,3 +158,17 @@ def parse_weights(text: str, rates: Sequence[str], exponents: Sequence[str]) -> 
     if not form.coeffs:
         raise InputError(f"a weighted sum needs at least one rate ({_listing(rates)})", text, 0)
     return form.coeffs
+
+
+def h_region(name: str, rates: Sequence[str], exponents: Sequence[str], inequalities: Sequence[str],
+             nonnegative: bool = True) -> HRegion:
+    """An H-form from texts, for notebooks and tests: h_region("MAC", ["d1", "d2"], ["a1", "a2"],
+    ["d1 <= a1", "d2 <= a2", "d1 + d2 <= max(a1, a2)"])."""
+    rows = tuple(parse_inequality(t, rates, exponents) for t in inequalities)
+    return HRegion(name, tuple(rates), rows, nonnegative)
+
+
+def v_region(name: str, rates: Sequence[str], exponents: Sequence[str], corners: Sequence[str],
+             free_disposal: bool = False) -> VRegion:
+    """A V-form from texts: v_region("SD", ["d1", "d2"], ["a1", "a2"], ["(a1, 0)", "(0, a2)"], True)."""
+    return VRegion(name, tuple(rates), tuple(parse_corner(t, rates, exponents) for t in corners), free_disposal)
