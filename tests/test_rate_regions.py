@@ -249,3 +249,14 @@ def test_text_helpers_build_the_same_regions():
     from verifier.rates.text import h_region, v_region
     assert h_region("MAC", RATES, EXPS, ["d1 <= a1", "d2 <= a2", "d1 + d2 <= max(a1, a2)"]) == MAC
     assert v_region("SD", RATES, EXPS, ["(a1, (a2 - a1)^+)", "((a1 - a2)^+, a2)"], True) == SD
+
+
+def test_a_max_refutation_needs_the_exact_optimum_to_agree():
+    # at a1 = 1/2 the region {d1 <= a1 - 1} is empty: the formula min over dual vertices still reads
+    # a1 - 1 there, but no maximum exists, so that point refutes nothing (unknown, never refuted)
+    shifted = H("shifted", "d1 <= a1 - 1", "d2 <= 1")
+    v = run(RC.max_of(shifted, {"d1": 1}, "==", parse_expr("a1"), parse_region("a1 >= 0, a1 <= 1/2")))
+    assert v.status == "unknown"
+    # where the region is not empty the same wrong formula is refuted, with the optimiser
+    v = run(RC.max_of(shifted, {"d1": 1}, "==", parse_expr("a1"), parse_region("a1 >= 1")))
+    assert v.status == "refuted" and v.witness.rates["d1"] == v.witness.theta["a1"] - 1

@@ -22,7 +22,7 @@ from fractions import Fraction
 from verifier.budget import Budget, OutOfBudget
 from verifier.claims import Side, relation, violated_at, violation_query
 from verifier.errors import RegionError
-from verifier.expr import format_number, to_text
+from verifier.expr import evaluate, format_number, to_text
 from verifier.prove import Verdict, prove
 from verifier.smt import Query, check
 from verifier.verdicts import PROVED, REFUTED, UNKNOWN, Obligation, all_of, backends
@@ -150,20 +150,39 @@ def scalar_claim(claim: RateClaim):
     return relation(side, claim.rel, Side(claim.formula), claim.region, claim.name)
 
 
-def max_witness(claim: RateClaim, verdict: Verdict) -> tuple[Q.RateWitness | None, str]:
-    """The optimising rate tuple at the scalar counterexample, re-derived by exact LP (a second,
-    independent computation of the maximum: a disagreement with the dual formula is reported)."""
-    cex = first_counterexample(verdict)
-    theta = {n: Fraction(cex.point[n]) for n in exponents_of(claim) if n in cex.point}
+def _theta(claim: RateClaim, cex) -> dict:
+    return {n: Fraction(cex.point[n]) for n in exponents_of(claim) if n in cex.point}
+
+
+def max_refutes(claim: RateClaim, scalar_claim_, result) -> bool:
+    """The exact re-check of a refuted 'max' claim: the scalar counterexample violates the scalar
+    claim in its region, AND the maximum computed again at that point by exact LP (or over the
+    corners) equals the support formula there and violates the claimed relation.  The second part
+    does not trust the duality argument: where the region is empty, or the formula were wrong, the
+    refutation does not count (verifier.verdicts then says unknown)."""
+    cex = first_counterexample(result)
+    if cex is None or not violated_at(scalar_claim_, cex.point):
+        return False
+    theta = _theta(claim, cex)
     best = optimum_at(claim.first, claim.weights, theta)
     if best is None or best.value != cex.lhs_value:
-        return None, (f"ENGINE DEFECT: the exact optimum at {_at(theta)} is "
-                      f"{'undefined' if best is None else format_number(best.value)}, the support "
-                      f"formula says {format_number(cex.lhs_value)}; please report it")
+        return False
+    return not _holds(best.value, claim.rel, evaluate(claim.formula, theta))
+
+
+def _holds(a, rel: str, b) -> bool:
+    return {"<": a < b, "<=": a <= b, "==": a == b, ">=": a >= b, ">": a > b}[rel]
+
+
+def max_witness(claim: RateClaim, verdict: Verdict) -> Q.RateWitness:
+    """The optimising rate tuple at the (re-checked, see max_refutes) scalar counterexample."""
+    cex = first_counterexample(verdict)
+    theta = _theta(claim, cex)
+    best = optimum_at(claim.first, claim.weights, theta)
     story = (f"max of {claim.weights_text()} over {claim.first.name} here is {format_number(best.value)} "
              f"(attained at this rate tuple; {best.certificate}); {to_text(claim.formula)} = "
              f"{format_number(cex.rhs_value)}, so '{claim.rel}' fails")
-    return Q.RateWitness(theta, best.rates, story, cex.strictly_inside, cex.origin), ""
+    return Q.RateWitness(theta, best.rates, story, cex.strictly_inside, cex.origin)
 
 
 def decide(claim: RateClaim, solver: str = "z3", timeout: float = 30.0, cross_check: bool = False,
@@ -187,9 +206,8 @@ def decide(claim: RateClaim, solver: str = "z3", timeout: float = 30.0, cross_ch
             return RateVerdict(claim, UNKNOWN, tuple(obligations), None, str(exc), seconds=budget.spent())
         decider = scalar_decider or (lambda c, b: prove(c, solver, timeout, cross_check, improve_witness, b))
         scalar = decider(sc, budget)
-        cex = first_counterexample(scalar)
         obligations.append(Obligation(f"the maximum {claim.rel} {to_text(claim.formula)}", scalar.status,
-                                      scalar.detail, (lambda: cex is not None and violated_at(sc, cex.point)),
+                                      scalar.detail, lambda: max_refutes(claim, sc, scalar),
                                       violation_query(sc), scalar))
     combined = all_of(obligations)
     status, notes = combined.status, list(combined.notes)
@@ -205,7 +223,5 @@ def decide(claim: RateClaim, solver: str = "z3", timeout: float = 30.0, cross_ch
                 replace(c.witness(point), strictly_inside=claim.region.relative_interior().contains(
                     c.split(point)[0]))
         else:
-            witness, defect = max_witness(claim, first.evidence)
-            if defect:
-                status, notes = UNKNOWN, [defect]
+            witness = max_witness(claim, first.evidence)
     return RateVerdict(claim, status, tuple(obligations), witness, "; ".join(notes), scalar, budget.spent())

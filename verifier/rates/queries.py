@@ -169,6 +169,8 @@ def corners_nonnegative(a: VRegion, R: Region, exps) -> list[Check]:
 def zero_inside(a: HRegion, R: Region, exps) -> list[Check]:
     """0 in A(theta) on R: the primal feasibility the support formula (support.py) relies on."""
     bounds = [q.bound for q in a.inequalities]
+    if not bounds:
+        return []        # only d >= 0 (or nothing): 0 is always in the region
     query = Query(R, ((min_(*bounds), "<", lift(0)),), None, exps)
 
     def valid(p):
