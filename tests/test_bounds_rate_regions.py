@@ -81,3 +81,35 @@ def test_cutset_region_of_two_messages():
     assert status(RC.subset(outer, cut, alpha)) == "proved"
     assert status(RC.subset(cut, outer, alpha)) == "refuted"
     assert status(RC.max_of(cut, {"d1": 1, "d2": 1}, "==", scale(2, w_curve()), alpha)) == "refuted"
+
+
+def _successive_decoding_corners(exponents):
+    """Corners of the K-user MAC: decode users in each order, each treating the later ones as noise
+    (GDoF of one decoding: max(own, later) - max(later); from memory, common practice)."""
+    from itertools import permutations
+    a = [param(x) for x in exponents]
+    corners = []
+    for order in permutations(range(len(a))):
+        c = [None] * len(a)
+        for k, u in enumerate(order):
+            later = [a[v] for v in order[k + 1:]]
+            c[u] = max_(a[u], *later) - max_(*later) if later else a[u]
+        corners.append(tuple(c))
+    return VRegion("SD", tuple(f"d{i + 1}" for i in range(len(a))), tuple(corners), True)
+
+
+def test_three_user_mac_weighted_sum_is_the_greedy_polymatroid_value():
+    # polymatroid greedy (Edmonds 1970, from memory): with weights 1 < 2 < 3 fill d3, then d2, then d1
+    mac = mac_rate_region(["a1", "a2", "a3"])
+    R = parse_region("a1 >= 0, a2 >= 0, a3 >= 0")
+    greedy = parse_expr("a3 + max(a2, a3) + max(a1, a2, a3)")
+    assert status(RC.max_of(mac, {"d1": 1, "d2": 2, "d3": 3}, "==", greedy, R)) == "proved"
+    assert status(RC.max_of(_successive_decoding_corners(["a1", "a2", "a3"]), {"d1": 1, "d2": 2, "d3": 3},
+                            "==", greedy, R)) == "proved"
+    assert status(RC.max_of(mac, {"d1": 1, "d2": 2, "d3": 3}, "==", parse_expr("a1 + 2*a2 + 3*a3"), R)) == "refuted"
+
+
+@pytest.mark.skipif(__import__("os").environ.get("GDOF_SLOW") != "1", reason="about 5 s: set GDOF_SLOW=1")
+def test_three_user_mac_region_is_successive_decoding():
+    R = parse_region("a1 >= 0, a2 >= 0, a3 >= 0")
+    assert status(RC.equal(_successive_decoding_corners(["a1", "a2", "a3"]), mac_rate_region(["a1", "a2", "a3"]), R)) == "proved"
