@@ -137,6 +137,8 @@ BAD_CLAIMS = [
     ("box == cap for all weights", "sd == cap for all weights", "given by corners"),
     ("sd == cap", "sd == sd", "both regions are given by corners"),
     ("sd == cap", "sd around cap", "a region claim reads"),
+    ("sd == cap", "cap facet 9 is redundant", "there is no facet 9"),
+    ("sd == cap", "sd facet 1 is redundant", "given by corners"),
 ]
 
 

@@ -260,3 +260,18 @@ def test_a_max_refutation_needs_the_exact_optimum_to_agree():
     # where the region is not empty the same wrong formula is refuted, with the optimiser
     v = run(RC.max_of(shifted, {"d1": 1}, "==", parse_expr("a1"), parse_region("a1 >= 1")))
     assert v.status == "refuted" and v.witness.rates["d1"] == v.witness.theta["a1"] - 1
+
+
+def test_redundant_facet_proved_and_refuted():
+    # 2 d1 + d2 <= a1 + max(a1, a2) is the sum of d1 <= a1 and d1 + d2 <= max(a1, a2): redundant
+    extra = H("MAC+", "d1 <= a1", "d2 <= a2", "d1 + d2 <= max(a1, a2)", "2*d1 + d2 <= a1 + max(a1, a2)")
+    assert run(RC.redundant(extra, 3, QUADRANT)).status == "proved"
+    # the sum facet of MAC is not: at a1 = a2 = 1 the tuple (1, 1) meets the others and breaks it
+    v = run(RC.redundant(MAC, 2, QUADRANT), improve=True)
+    assert v.status == "refuted"
+    w = v.witness
+    assert BOX.contains(w.theta, w.rates) and not MAC.contains(w.theta, w.rates)
+    # ... but it is where one user is silent (a2 = 0): then d1 + d2 <= a1 follows from d1 <= a1, d2 <= 0
+    assert run(RC.redundant(MAC, 2, parse_region("a1 >= 0, a2 == 0"))).status == "proved"
+    with pytest.raises(InputError, match="no facet 4"):
+        RC.redundant(MAC, 3, QUADRANT)

@@ -21,6 +21,7 @@ word is a region name, or the sentence starts with `max ... over`):
     A == B for all weights     equal support functions for every w >= 0 (down-closed H-forms)
     A contains (x1, ..., xK)   the point lies in A(theta)
     max d1 + d2 over A == F    the largest weighted sum compared with F by == <= >= < >
+    A facet 3 is redundant     the third inequality of A is implied by the others
 
 Errors name the file, the key and the column, like every case-file error.
 """
@@ -194,6 +195,11 @@ def _rate_claim(rd, key, text, region, name, case):
     head = HEAD_RE.match(text)
     a = _region_named(rd, key, head["a"], case, text)
     rest = text[head.end():]
+    facet = re.match(r"facet\s+(\d+)\s+(is\s+)?redundant\s*$", rest)
+    if facet is not None:
+        claim = RC.redundant(a, int(facet[1]) - 1, region, name)
+        _bounded(RC.without_facet(claim))
+        return claim
     if rest.startswith("contains"):
         start = head.end() + len("contains")
         point = _offset(lambda: parse_corner(text[start:], a.rates, _names(case)), text, start)
@@ -202,7 +208,8 @@ def _rate_claim(rd, key, text, region, name, case):
     form = re.match(r"(subset|⊆|==|=)\s*([A-Za-z_][A-Za-z0-9_]*)\s*(for\s+all\s+weights)?\s*$", rest)
     if form is None:
         raise ParseError("a region claim reads 'A subset B', 'A == B', 'A == B for all weights', "
-                         "'A contains (x, y)' or 'max d1 + d2 over A == F'", text, head.end())
+                         "'A contains (x, y)', 'A facet 3 is redundant' or 'max d1 + d2 over A == F'",
+                         text, head.end())
     b = _region_named(rd, key, form[2], case, text)
     if form[3]:
         if form[1] in ("subset", "⊆"):

@@ -7,6 +7,10 @@ Kinds, with R the claim's exponent region and A, B rate regions:
 - max      max of w.d over A REL f: the largest weighted sum (the support function at w) compared with
            a formula f(theta) by REL (==, <=, >=, <, >), for every theta in R
 - support  A and B have equal support functions for every weight vector w >= 0 ("for all weights")
+- redundant  facet j of the H-form A is implied by the others for every theta in R: decided as the
+           'max' claim "max of facet j's left side over A without facet j <= its right side", so a
+           refutation is a rate tuple of A without the facet that the facet cuts off, and the
+           region-wise report shows exactly where the facet is active (its thresholds)
 
 What is decided for `support`, exactly: both regions must be down-closed H-forms (d >= 0, every
 coefficient >= 0); then h_A(w) = h_B(w) for all w >= 0 and all theta in R holds exactly when
@@ -28,7 +32,8 @@ from verifier.region import Region
 
 from .region import HRegion, RateRegion, VRegion, same_rates
 
-KINDS = ("region subset", "region equal", "region contains", "region max", "region support")
+KINDS = ("region subset", "region equal", "region contains", "region max", "region support",
+         "region redundant")
 
 
 @dataclass(frozen=True)
@@ -45,6 +50,7 @@ class RateClaim:
     formula: Expr | None = None
     name: str = ""
     params: tuple[str, ...] = field(default=())
+    index: int = 0          # the facet of a 'redundant' claim (0-based)
 
     def weights_text(self) -> str:
         return to_text(affine(self.weights))
@@ -60,6 +66,9 @@ class RateClaim:
             return f"{a} contains ({', '.join(to_text(e) for e in self.point)}){where}"
         if self.kind == "region max":
             return f"max {self.weights_text()} over {a} {self.rel} {to_text(self.formula)}{where}"
+        if self.kind == "region redundant":
+            q = self.first.inequalities[self.index]
+            return f"{a} facet {self.index + 1} ('{q.text()}') is redundant{where}"
         return f"{a} == {b} for all weights{where}"
 
 
@@ -136,3 +145,22 @@ def same_support(a: RateRegion, b: RateRegion, region: Region, name: str = "") -
         if why:
             raise InputError(f"'for all weights' is decided only for down-closed regions: {why}")
     return _check_names(RateClaim("region support", region, a, b, name=name, params=_names(region, a, b)))
+
+
+def redundant(a: RateRegion, index: int, region: Region, name: str = "") -> RateClaim:
+    """Facet `index` (0-based) of the H-form `a` is implied by its other constraints on `region`."""
+    if not isinstance(a, HRegion):
+        raise InputError(f"'{a.name}' is given by corners: facets are those of a region given by inequalities")
+    if not 0 <= index < len(a.inequalities):
+        raise InputError(f"region '{a.name}' has {len(a.inequalities)} inequalities; there is no facet {index + 1}")
+    return _check_names(RateClaim("region redundant", region, a, name=name, index=index,
+                                  params=_names(region, a)))
+
+
+def without_facet(claim: RateClaim) -> RateClaim:
+    """The 'redundant' claim as the equivalent 'max' claim (see the module docstring)."""
+    a, j = claim.first, claim.index
+    q = a.inequalities[j]
+    rest = HRegion(f"{a.name} without facet {j + 1}", a.rates, a.inequalities[:j] + a.inequalities[j + 1:],
+                   a.nonnegative)
+    return max_of(rest, dict(q.coeffs), "<=", q.bound, claim.region, claim.name)

@@ -191,6 +191,11 @@ def decide(claim: RateClaim, solver: str = "z3", timeout: float = 30.0, cross_ch
     claim is decided (default verifier.prove.prove; the workbench passes the region-wise prover).
     `improve_witness=False` keeps the solver's refuting pair (re-checked all the same): for tests."""
     budget = Budget.of(budget, timeout)
+    if claim.kind == "region redundant":
+        from .claims import without_facet
+        verdict = decide(without_facet(claim), solver, timeout, cross_check, budget, scalar_decider,
+                         improve_witness)
+        return replace(verdict, claim=claim)
     solvers = ("z3", "cvc5") if cross_check else (solver,)
     try:
         region_status = ensure_nonempty(claim, solvers[0], budget)
