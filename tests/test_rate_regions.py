@@ -16,7 +16,7 @@ import pytest
 from hypothesis import given, settings, strategies as st
 
 from verifier.errors import InputError
-from verifier.expr import evaluate, max_, param, pos
+from verifier.expr import evaluate, max_, param
 from verifier.parse import parse_expr, parse_region
 from verifier.rates import claims as RC
 from verifier.rates.decide import decide

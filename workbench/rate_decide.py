@@ -18,12 +18,11 @@ from .decide import Outcome, Part
 def decide_rates(case_claim, solver="z3", timeout=30.0, cross_check=False, method="smt", budget=None,
                  workers=1, progress=None) -> Outcome:
     clock = Budget.of(None, timeout, budget)
-    scalar_decider = None
-    if method == "regimes":
-        def scalar_decider(claim, b):
-            from verifier.regime_proof import prove_by_regimes
-            return prove_by_regimes(claim, solver, b.query_timeout, cross_check, workers,
-                                    progress(claim.name) if progress else None, budget=b)
+    def by_regimes(claim, b):
+        from verifier.regime_proof import prove_by_regimes
+        return prove_by_regimes(claim, solver, b.query_timeout, cross_check, workers,
+                                progress(claim.name) if progress else None, budget=b)
+    scalar_decider = by_regimes if method == "regimes" else None
     verdict = decide_claim(case_claim.claim, solver, timeout, cross_check, clock, scalar_decider)
     out = Outcome(case_claim, verdict.status, obligations=verdict.obligations, seconds=clock.spent())
     if verdict.scalar is not None:
