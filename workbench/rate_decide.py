@@ -33,4 +33,18 @@ def decide_rates(case_claim, solver="z3", timeout=30.0, cross_check=False, metho
         out.notes += [f"{ob.what}: {ob.reason or 'undecided'}" for ob in verdict.obligations
                       if ob.status != "proved" and ob.reason not in out.notes]
     out.rate_witness = verdict.witness
+    if method == "regimes":          # the report also says where each inequality is a facet
+        out.notes += facet_notes(case_claim.claim, by_regimes, clock)
     return out
+
+
+def facet_notes(claim, decide_scalar, clock: Budget) -> list[str]:
+    """For each region given by inequalities in the claim: where each inequality is a facet, exactly
+    (verifier.rates.facets).  Display only: it never changes the claim's verdict."""
+    from verifier.rates.facets import activity_lines, facet_activity
+    from verifier.rates.region import HRegion
+    lines: list[str] = []
+    for region in (claim.first, claim.second):
+        if isinstance(region, HRegion) and region.name not in {r for r in lines}:
+            lines += activity_lines(region, facet_activity(region, claim.region, decide_scalar, clock))
+    return lines
