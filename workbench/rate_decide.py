@@ -44,7 +44,9 @@ def facet_notes(claim, decide_scalar, clock: Budget) -> list[str]:
     from verifier.rates.facets import activity_lines, facet_activity
     from verifier.rates.region import HRegion
     lines: list[str] = []
+    seen: set[str] = set()
     for region in (claim.first, claim.second):
-        if isinstance(region, HRegion) and region.name not in {r for r in lines}:
+        if isinstance(region, HRegion) and region.name not in seen:
+            seen.add(region.name)
             lines += activity_lines(region, facet_activity(region, claim.region, decide_scalar, clock))
     return lines
