@@ -94,9 +94,10 @@ def test_casebook_runner_and_json(tmp_path, capsys):
 
 def test_report_shows_region_verdicts_and_the_pair(tmp_path, capsys):
     path = write(tmp_path, CASE)
-    assert main(["report", path]) == 1
+    assert main(["report", path, "--claim", "the box is not", "--claim", "sum"]) == 1
     out = capsys.readouterr().out
-    assert "sd is the region -- proved" in out and "the box is not -- refuted" in out
+    assert "sum -- proved" in out and "the box is not -- refuted" in out
+    assert "3. d1 + d2 <= max(a1, a2): a facet where" in out      # where the sum facet cuts
     assert "rate tuple: (d1 = 1, d2 = 1)" in out
     assert "max of d1 + d2 over cap" in out      # the regime table of the support formula
 
