@@ -177,3 +177,15 @@ def test_an_unbounded_weighted_sum_is_bad_input_when_read(tmp_path, capsys):
     text = text.replace("[[claims]]", '[region.half]\ninequalities = ["d1 <= a1"]\n[[claims]]', 1)
     line = one_error(capsys, "check", write(tmp_path, text))
     assert "claims[2].statement" in line and "unbounded over region 'half'" in line
+
+
+def test_rates_as_an_array_and_regions_without_nonnegativity(tmp_path, capsys):
+    text = CASE.replace('[rates]\nd1 = "user 1"\nd2 = "user 2"\n', '')
+    text = text.replace('title = "MAC region"', 'title = "MAC region"\nrates = ["d1", "d2"]')
+    text = text.replace('[region.box]\ninequalities = ["d1 <= a1", "0.5*d2 <= a2/2"]',
+                        '[region.box]\ninequalities = ["d1 <= a1", "0.5*d2 <= a2/2"]\nnonnegative = false')
+    # without d >= 0 the box is not down-closed in the orthant: 'for all weights' is refused
+    line = one_error(capsys, "check", write(tmp_path, text, "b.toml"))
+    assert "claims[1].statement" in line and "does not require the rates to be non-negative" in line
+    case = load_case(write(tmp_path, text.replace("box == cap for all weights", "cap subset box")))
+    assert list(case.rates) == ["d1", "d2"] and case.regions["box"].nonnegative is False
