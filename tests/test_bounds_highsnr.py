@@ -50,7 +50,9 @@ def test_extracted_gdof_matches_mpmath_slopes(rnd):
     d = evaluate(rate.gdof(), point)
     errors = [abs(rate.slope(snr, point) - mpmath.mpf(d.numerator) / d.denominator) for snr in SNRS]
     assert errors[2] <= errors[0] + mpmath.mpf(10) ** -30, text
-    assert errors[2] < 0.05, text
+    # the SNR-free part of R (up to three terms, coefficients up to 2, constants such as log2(12) and
+    # log2(5): under 25 bits) over log2(10^80) ~ 266 bits: the ratio is within 0.1 of the GDoF there
+    assert errors[2] < 0.1, text
     rise = rate.numeric(SNRS[2], point) - rate.numeric(SNRS[1], point)
     run = mpmath.log(SNRS[2], 2) - mpmath.log(SNRS[1], 2)
     assert abs(rise / run - mpmath.mpf(d.numerator) / d.denominator) < 1e-6, text

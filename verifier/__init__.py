@@ -10,6 +10,7 @@ only from itself and the floors below it (checked by tests/test_layout.py):
     solvers      Query -> sat / unsat / unknown with z3 or cvc5 (the only pysmt user); SMT-LIB text
     claims       Claim kinds, violation queries, exact re-checks, counterexample ranking, prove()
     regimes      the region-wise prover: cells, certified regimes, failure sub-region, thresholds
+    rates        regions of rate tuples (inequalities or corners) and their claims, via the floors below
     report       one Report object; text, Markdown, LaTeX and JSON renderers
 
     standalone   a checker of exported certificates that needs only the Python standard library

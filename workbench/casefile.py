@@ -10,6 +10,7 @@ A case file is TOML in a layout of our own:
     [inner]                  named inner bounds / schemes; `inner` means their max
     [formulas]               named formulas (conjectures, published curves)
     [[claims]]               statement = "inner == outer", where = "...", name = "...", expect = "proved"
+    [rates], [region.NAME]   rate regions and their claims (workbench/rate_case.py)
 
 A bound may be given regime by regime, as `hk = "1 - alpha if alpha <= 1/2; alpha if alpha > 1/2"` or
 `hk = { regimes = [["1 - alpha", "alpha <= 1/2"], ...] }`.  Such a name stays a placeholder until a
@@ -41,10 +42,12 @@ from verifier.expressions.expr import const, max_, min_, param, params, substitu
 from verifier.expressions.region import Region
 from verifier.geometry.lp import feasible
 from verifier.text.latex_in import parse_latex_expr, parse_latex_region
-from verifier.text.lexer import KEYWORDS, MAX_LITERAL_DIGITS
+from verifier.text.lexer import MAX_LITERAL_DIGITS
 from verifier.text.parse import parse_expr, parse_piecewise, parse_region
 
 from . import versions
+from . import rate_case
+from .names import NAME_RE, NOT_NAMES
 from .expansion import expand
 from .output_target import shown_path
 from .statements import Part, did_you_mean, explained, listing, parse_sentence, shifted
@@ -53,11 +56,9 @@ RESERVED = {"inner", "outer"}
 CLAIM_KEYS = {"name", "statement", "where", "expect"}
 VERDICTS = ("proved", "refuted", "unknown")
 TOP_KEYS = {"title", "scenario", "source", "parameters", "assume", "outer", "inner", "formulas",
-            "claims", "network"}
+            "claims", "network", "rates", "region"}
 ASSUME_KEYS = {"region"}
 REGIME_KEYS = {"regimes"}
-NAME_RE = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")
-NOT_NAMES = KEYWORDS | {"min", "max", "Min", "Max", "pos", "abs", "Abs"}   # words the grammar owns
 MAX_SUBCLAIMS = 4096   # regimes of several discontinuous bounds multiply: a typo, not a case
 
 
@@ -89,6 +90,8 @@ class Case:
     versions: dict = field(default_factory=dict)     # name -> (kind, {bound: Expr}): workbench.versions
     regime_checks: list[PiecewiseCheck] = field(default_factory=list)
     piecewise: dict = field(default_factory=dict)    # name -> PiecewiseCheck (pieces + min/max form)
+    rates: dict = field(default_factory=dict)        # rate name -> meaning (workbench.rate_case)
+    regions: dict = field(default_factory=dict)      # region name -> verifier.rates HRegion / VRegion
     raw: dict = field(default_factory=dict)
     _resolving: tuple = field(default=(), repr=False, compare=False)
 
@@ -336,6 +339,7 @@ def build_case(path: str, text: str, data: dict, solver="z3", timeout=30.0, budg
     for kind in ("outer", "inner"):
         _bounds(rd, tables[kind], kind, case, solver, timeout, budget)
     _formulas(rd, tables["formulas"], case)
+    rate_case.load(rd, data, case)
     claims = data.get("claims", [])
     if isinstance(claims, dict):
         raise rd.fail("claims", "expected an array of tables: write each claim under [[claims]] "
@@ -572,8 +576,9 @@ def _claim(rd: _Reader, index: int, spec, case: Case) -> CaseClaim:
     if "statement" not in spec:
         raise rd.fail(key, "each [[claims]] entry needs statement = \"...\"")
     text = rd.string(f"{key}.statement", spec["statement"], "the claim in quotes")
+    about_regions = rate_case.is_region_sentence(text, case)
     try:
-        s = parse_sentence(text)
+        s = None if about_regions else parse_sentence(text)
     except InputError as err:
         raise rd.fail(f"{key}.statement", err, text) from None
     region = case.assume
@@ -589,6 +594,9 @@ def _claim(rd: _Reader, index: int, spec, case: Case) -> CaseClaim:
     if expect is not None and expect not in VERDICTS:
         found = f"'{expect}'" if isinstance(expect, str) else kind_of(expect)
         raise rd.fail(f"{key}.expect", f"expected one of {', '.join(VERDICTS)}, found {found}")
+    if about_regions:
+        return CaseClaim(rate_case.rate_claim(rd, f"{key}.statement", text, region, name, case), text,
+                         expect, key)
     claim = _make_claim(rd, s, text, f"{key}.statement", region, name, case)
     if claim.subst:   # the slice itself may miss the region: that is a typo too
         _check_nonempty(rd, [("claims", index), ("statement", None)], claim.region)

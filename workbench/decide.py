@@ -15,8 +15,6 @@ report).  Every stage draws on one Budget for the whole case claim.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
-
 from verifier.claims.kinds import claim_points, violated_at
 from verifier.claims.one_shot import Verdict, prove
 from verifier.claims.witness import best_point
@@ -27,55 +25,7 @@ from verifier.expressions.expr import param
 from verifier.expressions.region import Region, atoms_of
 from verifier.solvers.smt import Query, check
 
-
-@dataclass
-class Part:
-    """One sub-claim and what decided it: a one-shot Verdict or a RegimeProof (with `.status`)."""
-
-    label: str
-    claim: object
-    result: object = None            # Verdict | RegimeProof | None (empty sub-region)
-    empty: bool = False
-
-    @property
-    def status(self) -> str:
-        return PROVED if self.empty else self.result.status
-
-    @property
-    def counterexample(self):
-        r = self.result
-        if r is None:
-            return None
-        if isinstance(r, Verdict):
-            return r.counterexample
-        return r.counterexamples[0] if r.counterexamples else None
-
-
-@dataclass
-class Outcome:
-    case_claim: object
-    status: str
-    parts: list = field(default_factory=list)        # [Part] with a non-empty sub-region
-    uncovered: list = field(default_factory=list)    # [(bound name, point)]
-    notes: list = field(default_factory=list)        # why unknown, loud disagreements
-    obligations: tuple = ()
-    seconds: float = 0.0
-
-    @property
-    def verdicts(self) -> list:
-        """[(label, Verdict)] of the one-shot method (check); RegimeProofs are in `parts`."""
-        return [(p.label, p.result) for p in self.parts if isinstance(p.result, Verdict)]
-
-    @property
-    def first_failure(self) -> tuple[str, object] | None:
-        for p in self.parts:
-            if p.status == REFUTED:
-                return p.label, p.result
-        return None
-
-    @property
-    def detail(self) -> str:
-        return "; ".join(self.notes)
+from .outcome import Outcome, Part
 
 
 def claim_space_region(claim) -> Region:
@@ -176,6 +126,10 @@ def _part(case_claim, label, sub, method, solver, budget, cross_check, workers, 
 def decide(case_claim, solver="z3", timeout=30.0, cross_check=False, method="smt", budget=None,
            workers=1, progress=None) -> Outcome:
     """Decide a case claim by its plan of obligations (module docstring); `budget` in seconds."""
+    from verifier.rates.claims import RateClaim
+    if isinstance(case_claim.claim, RateClaim):   # claims about rate regions: workbench.rate_decide
+        from .rate_decide import decide_rates
+        return decide_rates(case_claim, solver, timeout, cross_check, method, budget, workers, progress)
     clock = Budget.of(None, timeout, budget)
     out = Outcome(case_claim, UNKNOWN)
     obligations = _coverage(case_claim, solver, clock)

@@ -63,6 +63,8 @@ def case_report(case, case_claims, solver="z3", timeout=30.0, cross_check=False,
         outcome = decide(cc, solver, timeout, cross_check, "regimes", budget, workers, progress)
         sections = tuple(claim_report(p.result, p.label, None) for p in outcome.parts)
         notes = tuple(uncovered_note([gap]) for gap in outcome.uncovered) + tuple(outcome.notes)
+        if outcome.rate_witness is not None:   # a rate-region claim: exponent point and rate tuple
+            notes += tuple(outcome.rate_witness.lines())
         entries.append(ClaimEntry(cc.claim.name, cc.claim.text(), outcome.status, sections, cc.expect,
                                   notes, tuple(outcome.obligations)))
     if progress:

@@ -90,6 +90,8 @@ def outcome_lines(outcome) -> list[str]:
             lines.append(f"    note: {v.detail}")
         if v.counterexample is not None:
             lines += counterexample_lines(v, "      " if label else "    ")
+    if getattr(outcome, "rate_witness", None) is not None:
+        lines += ["    " + line for line in outcome.rate_witness.lines()]
     return lines
 
 
@@ -101,7 +103,16 @@ def outcome_json(outcome) -> dict:
             "uncovered": [{"bound": n, "point": {k: fmt(v) for k, v in p.items()}}
                           for n, p in outcome.uncovered],
             "notes": list(outcome.notes),
-            "parts": [dict(verdict_json(v), regime=label) for label, v in outcome.verdicts]}
+            "parts": [dict(verdict_json(v), regime=label) for label, v in outcome.verdicts],
+            "rate_witness": rate_witness_json(getattr(outcome, "rate_witness", None))}
+
+
+def rate_witness_json(w) -> dict | None:
+    """A rate-region refutation: the exponent point and the rate tuple, exact numbers as strings."""
+    if w is None:
+        return None
+    return {"point": {k: fmt(v) for k, v in w.theta.items()}, "rates": {k: fmt(v) for k, v in w.rates.items()},
+            "what": w.story, "strictly_inside": w.strictly_inside, "origin": w.origin}
 
 
 def counterexample_json(cex: Counterexample) -> dict:
