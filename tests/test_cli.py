@@ -8,6 +8,7 @@ import textwrap
 import pytest
 
 from workbench.cli import main
+from tests.case_files import write
 
 GOOD = """
 title = "tiny"
@@ -28,12 +29,6 @@ statement = "inner <= outer"
 expect = "proved"
 {extra}
 """
-
-
-def write(tmp_path, text, name="case.toml"):
-    path = tmp_path / name
-    path.write_text(textwrap.dedent(text), encoding="utf-8")
-    return str(path)
 
 
 def run(capsys, *argv):

@@ -4,7 +4,6 @@ where it is, exit 2 -- never a traceback, never exit 4, and never a silently cha
 import errno
 import os
 import re
-import textwrap
 from fractions import Fraction
 
 import pytest
@@ -15,6 +14,7 @@ from workbench import bundle_cmd, report_cmd
 from workbench.assertions import assert_claim
 from workbench.casefile import load_case
 from workbench.cli import build_parser, main, one_line
+from tests.case_files import write
 
 BASE = """\
 title = "tiny"
@@ -32,12 +32,6 @@ tin = "1 - alpha"
 name = "tin below outer"
 statement = "inner <= outer"
 """
-
-
-def write(tmp_path, text, name="case.toml"):
-    path = tmp_path / name
-    path.write_text(textwrap.dedent(text), encoding="utf-8")
-    return str(path)
 
 
 def one_error(capsys, *argv) -> str:

@@ -4,12 +4,12 @@ error contract (one line naming file, key and column, exit 2, never a traceback)
 from __future__ import annotations
 
 import json
-import textwrap
 
 import pytest
 
 from workbench.casefile import load_case
 from workbench.cli import main
+from tests.case_files import write
 
 CASE = """\
 title = "MAC region"
@@ -55,12 +55,6 @@ name = "inside the box"
 statement = "cap subset box"
 expect = "proved"
 """
-
-
-def write(tmp_path, text, name="case.toml"):
-    path = tmp_path / name
-    path.write_text(textwrap.dedent(text), encoding="utf-8")
-    return str(path)
 
 
 def test_regions_load_with_exact_numbers(tmp_path):

@@ -4,7 +4,6 @@ Each test names the defect it guards against.  Expected values are hand derivati
 the check; z3's own SMT-LIB reader (z3-solver, a reference library) re-answers the bundle's files.
 """
 
-import textwrap
 from fractions import Fraction as F
 
 import pytest
@@ -18,6 +17,7 @@ from verifier.regimes.proof import prove_by_regimes
 from verifier.solvers import smt
 from verifier.text.parse import parse_region
 from workbench.cli import main
+from tests.case_files import write
 
 a, b = param("alpha"), param("beta")
 
@@ -36,12 +36,6 @@ slices = "alpha if 0 <= alpha < 1; alpha if 1 <= alpha < 2; alpha if 2 <= alpha 
 name = "scheme below converse"
 statement = "inner <= outer"
 """
-
-
-def write(tmp_path, text, name="case.toml"):
-    path = tmp_path / name
-    path.write_text(textwrap.dedent(text), encoding="utf-8")
-    return str(path)
 
 
 def coverage_times_out(monkeypatch):
