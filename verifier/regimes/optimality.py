@@ -328,8 +328,12 @@ def optimality_region(claim: Claim, spec: Spec, regimes, region_pieces, budget: 
         return None, ""
     names = spec.names
     try:
-        holds, fails = _raw_pieces(spec, regimes)
-        holds, fails = merged(holds, names, budget), merged(fails, names, budget)
+        everywhere = all(getattr(c.extra, "status", "") == "proved" for r in regimes for c in r.cells)
+        if everywhere:     # a proved claim: no cell to merge (merging is the costly part)
+            holds, fails = [()], []
+        else:
+            holds, fails = _raw_pieces(spec, regimes)
+            holds, fails = merged(holds, names, budget), merged(fails, names, budget)
         within = None
         if len(region_pieces) == 1:
             within = tuple(irredundant([normalised_atom(a) for a in region_pieces[0]], names)[0])
@@ -340,7 +344,11 @@ def optimality_region(claim: Claim, spec: Spec, regimes, region_pieces, budget: 
         holds = sorted((ordered(p, names) for p in holds), key=lambda p: _key(p + (within or ()), names))
         fails = sorted((ordered(p, names) for p in fails), key=lambda p: _key(p + (within or ()), names))
         region = witness_region(claim)
-        hp = _recheck(claim, region, holds, within, names, True)
+        if everywhere and within is None:   # several region pieces: re-check a point of the first
+            within_check = tuple(region_pieces[0])
+            hp = _recheck(claim, region, holds, within_check, names, True)
+        else:
+            hp = _recheck(claim, region, holds, within, names, True)
         fp = _recheck(claim, region, fails, within, names, False)
     except NotExact as exc:
         return None, f"exact holds/fails sets not shown: {exc}"
