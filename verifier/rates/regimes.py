@@ -102,8 +102,25 @@ class RegionRegimes:
         """The regime whose pieces contain the exponent point (None outside them all)."""
         return next((g for g in self.regimes if any(all(a.holds(point) for a in p) for p in g.pieces)), None)
 
-    def row_text(self, i: int) -> str:
+    def row_label(self, i: int) -> str:
         return self.rows[i].label if i >= len(self.region.inequalities) else self.rows[i].text()
+
+
+@dataclass(frozen=True)
+class RegionNotShown:
+    """A region whose regimes are not shown, and why (a size limit, the budget, a failed re-check)."""
+
+    name: str
+    reason: str
+    see: str = ""        # shown already under this claim (the same region over the same exponents)
+
+
+def row_text(rr: RegionRegimes, regime: RegionRegime, i: int) -> str:
+    """Constraint i as it reads on the regime: 'd1 + d2 <= 2 - alpha' (non-negativity as 'd1 >= 0')."""
+    q = rr.rows[i]
+    if i >= len(rr.region.inequalities):
+        return q.label
+    return f"{q.lhs_text()} <= {to_text(regime.bounds[i])}"
 
 
 def corner_text(corner: Sequence[Affine]) -> str:
@@ -225,7 +242,7 @@ def region_regimes(region: HRegion, R: Region, budget: Budget | None = None) -> 
         regimes.append(RegionRegime(len(regimes), pieces, point, status, bounds, corners,
                                     len(members), cell.dim))
     bounded = _unbounded_all(rows, rates)
-    return RegionRegimes(region, names, rows, tuple(regimes), _thresholds(regimes, names, rows, budget),
+    return RegionRegimes(region, names, rows, tuple(regimes), _thresholds(regimes, names, rows, len(region.inequalities), budget),
                          not bounded, len(cells), bool(bases))
 
 
@@ -242,26 +259,31 @@ class _Shown:
         self.polytopes = [polytope(p, names, shape(p, names).dim) for p in regime.pieces]
 
 
-def _thresholds(regimes, names, rows, budget) -> tuple[RegionThreshold, ...]:
+def _thresholds(regimes, names, rows, users, budget) -> tuple[RegionThreshold, ...]:
     if len(regimes) < 2 or not names:
         return ()
     out = []
     for t in thresholds([_Shown(r, names) for r in regimes], names, budget):
         changes = []
         for a, b in t.between:
-            changes += _changes(regimes[a], regimes[b], rows)
+            changes += _changes(regimes[a], regimes[b], rows, users)
         out.append(RegionThreshold(t.text, t.between, tuple(dict.fromkeys(changes)), t.form))
     return tuple(out)
 
 
-def _changes(a: RegionRegime, b: RegionRegime, rows) -> list[str]:
+def _article(status: str) -> str:
+    return {"facet": "a facet"}.get(status, status)
+
+
+def _changes(a: RegionRegime, b: RegionRegime, rows, users: int) -> list[str]:
     out = []
     for i in range(len(rows)):
         if a.status[i] != b.status[i]:
-            out.append(f"'{rows[i].label or rows[i].text()}' is {a.status[i]} in regime {a.index + 1}, "
-                       f"{b.status[i]} in regime {b.index + 1}")
+            name = f"({i + 1})" if i < users else rows[i].label
+            out.append(f"{name} is {_article(a.status[i])} in regime {a.index}, {_article(b.status[i])} "
+                       f"in regime {b.index}")
     for mine, other in ((a, b), (b, a)):
         for c in mine.corners:
             if c not in other.corners:
-                out.append(f"corner {corner_text(c)} only in regime {mine.index + 1}")
+                out.append(f"corner {corner_text(c)} only in regime {mine.index}")
     return out

@@ -124,6 +124,7 @@ class ClaimEntry:
     expect: str | None = None
     notes: tuple[str, ...] = ()
     obligations: tuple = field(default=(), compare=False, repr=False)   # verifier.core.verdicts.Obligation
+    regions: tuple = ()   # verifier.rates.regimes RegionRegimes / RegionNotShown of a region claim
 
 
 @dataclass(frozen=True)

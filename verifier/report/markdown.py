@@ -43,6 +43,9 @@ def claim_markdown(entry: ClaimEntry) -> list[str]:
     if entry.expect and entry.expect != entry.status:
         lines += [f"> Declared verdict was **{entry.expect}**.", ""]
     lines += [f"- {n}" for n in entry.notes] + ([""] if entry.notes else [])
+    from verifier.report.regions import region_markdown
+    for item in entry.regions:
+        lines += region_markdown(item)
     from verifier.report.latex import referee_sentence
     sentence = referee_sentence(entry)
     if sentence:
