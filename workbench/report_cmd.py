@@ -68,7 +68,9 @@ def case_report(case, case_claims, solver="z3", timeout=30.0, cross_check=False,
             notes += tuple(outcome.rate_witness.lines())
         entries.append(ClaimEntry(cc.claim.name, cc.claim.text(), outcome.status, sections, cc.expect,
                                   notes, tuple(outcome.obligations),
-                                  once_per_case(shown, cc.claim, outcome.rate_regimes)))
+                                  once_per_case(shown, cc.claim, outcome.rate_regimes),
+                                  cc.claim if outcome.rate_witness is not None else None,
+                                  outcome.rate_witness))
     if progress:
         sys.stderr.write("\r" + " " * 80 + "\r")
     return build_report(entries, case.title, case.source, "z3 and cvc5" if cross_check else solver,
