@@ -166,3 +166,74 @@ def test_regime_corners_match_brute_force_enumeration(rows, caps, points):
         g = rr.regime_at(theta)
         assert g is not None
         assert corner_values(g, theta) == brute_vertices(region, theta)
+
+
+# --- gdof report / bundle ------------------------------------------------------------------------
+
+CASE = """
+title = "MAC region (from memory: Cover-Thomas 2006, ch. 15, GDoF form, common practice)"
+[parameters]
+a1 = "user 1"
+a2 = "user 2"
+[assume]
+region = "a1 >= 0, a2 >= 0"
+[rates]
+d1 = "user 1"
+d2 = "user 2"
+[region.capacity]
+inequalities = ["d1 <= a1", "d2 <= a2", "d1 + d2 <= max(a1, a2)"]
+[region.box]
+inequalities = ["d1 <= a1", "d2 <= a2"]
+[[claims]]
+name = "sum"
+statement = "max d1 + d2 over capacity == max(a1, a2)"
+expect = "proved"
+[[claims]]
+name = "box"
+statement = "box == capacity"
+expect = "refuted"
+"""
+
+
+@pytest.fixture(scope="module")
+def mac_report(tmp_path_factory):
+    from case_files import write
+    from workbench.casefile import load_case
+    from workbench.report_cmd import case_report
+    case = load_case(write(tmp_path_factory.mktemp("case"), CASE))
+    return case_report(case, case.claims)
+
+
+def test_report_shows_each_region_once_in_every_format(mac_report):
+    from verifier.report.json_out import report_json
+    from verifier.report.latex import render_latex
+    from verifier.report.markdown import render_markdown
+    from verifier.report.text import render_text
+    text = render_text(mac_report)
+    assert text.count("regimes of region capacity: 2 regime(s)") == 1
+    assert "as under the claim 'sum' above" in text
+    assert "corners: (0, 0), (0, a2), (a1 - a2, a2), (a1, 0)" in text
+    assert "facets: (2) d2 <= a2; (3) d1 + d2 <= a1; d1 >= 0; d2 >= 0" in text
+    md = render_markdown(mac_report)
+    assert "| corner points |" in md and "(a1 - a2, a2)" in md
+    tex = render_latex(mac_report)
+    assert "\\begin{aligned}\nd_{1} &\\le \\mathrm{a1}\\\\\nd_{1} + d_{2} &\\le \\mathrm{a2}" in tex
+    data = report_json(mac_report)
+    shown = data["claims"][0]["regions"][0]
+    assert shown["shown"] and shown["thresholds"][0]["text"] == "a1 = a2"
+    corners = shown["regimes"][1]["corners"]
+    assert [[F(x["const"]) for x in c] for c in corners if not any(x["coeffs"] for x in c)] == [[0, 0]]
+    box, again = data["claims"][1]["regions"]                     # 'box == capacity': box first
+    assert box["region"] == "box" and box["shown"] and again["see"] == "sum"
+
+
+def test_bundle_draws_the_refuted_region_claim(mac_report, tmp_path):
+    from workbench.bundle_cmd import region_plot
+    sum_claim, box_claim = mac_report.claims
+    assert region_plot(sum_claim) is None                    # proved: nothing to draw
+    fig, caption = region_plot(box_claim)
+    polygons, theta, rates = fig.gdof["polygons"], fig.gdof["theta"], fig.gdof["rates"]
+    assert set(polygons) == {"box", "capacity"} and "refuting rate tuple" in caption
+    # the marked tuple is in the box and outside the MAC region, exactly
+    assert rates["d1"] + rates["d2"] > max(theta["a1"], theta["a2"])
+    assert rates["d1"] <= theta["a1"] and rates["d2"] <= theta["a2"]
