@@ -139,6 +139,21 @@ def test_unbounded_and_nonpointed_rows():
     assert g.status == ("not shown",) and g.corners == () and not rr.bounded and not rr.pointed
 
 
+def test_constant_region_is_one_regime_and_an_empty_regime_says_so():
+    from verifier.expressions.region import Region
+    from verifier.report.regions import region_lines
+    # hand derivation: d1 <= 1, d2 <= 2, d1 + d2 <= 5/2 cuts the box at (1, 3/2) and (1/2, 2)
+    rr = RR.region_regimes(H((), "d1 <= 1", "d2 <= 2", "d1 + d2 <= 5/2"), Region.everywhere())
+    (g,) = rr.regimes
+    assert texts(g) == {"(0, 0)", "(1, 0)", "(1, 3/2)", "(1/2, 2)", "(0, 2)"} and not rr.thresholds
+    # the MAC with a1 < 0 is empty; removing d1 <= a1 or d1 >= 0 alone would make it non-empty
+    rr = RR.region_regimes(MAC, parse_region("a1 < 0, a2 >= 0"))
+    (g,) = rr.regimes
+    assert g.corners == () and g.facets == (0, 3)
+    assert "facets: none: the region is empty here (without any one of (1) d1 <= a1; d1 >= 0" in \
+        "\n".join(region_lines(rr))
+
+
 def test_size_limit_is_named(monkeypatch):
     monkeypatch.setattr(RR, "MAX_MARGINS", 3)
     with pytest.raises(TooLarge, match="margins"):

@@ -19,8 +19,9 @@ merged exactly (verifier.regimes.optimality.merged) and the thresholds between r
 verifier.regimes.thresholds, each labelled with what changes across it.  Every printed corner and
 status is re-checked at a relative-interior point of every cell with Fractions only: the corners
 against an independent vertex enumeration at that point (verifier.geometry.vertices), the statuses
-against an exact LP at that point.  Formulas are claimed on relative interiors of the cells: on a
-threshold, corners may coincide (merge).
+against an exact LP at that point.  Formulas are claimed on the relative interior of every cell,
+i.e. on each regime except on lower-dimensional boundaries (thresholds, the edges of the exponent
+region, boundaries between cells): there corners may coincide (merge) and a facet may degenerate.
 
 Sizes: MAX_BASES (vertices.py), MAX_MARGINS targets, MAX_REGION_CELLS cells; beyond them TooLarge.
 """
@@ -166,6 +167,7 @@ def _margins(rows, rates, bases):
 def _cell_facts(cell, names, rows, rates, bases, margins, unbounded):
     """(key, point, status, bounds, corners) of one cell, read at a relative-interior point."""
     point = nice_point(cell.atoms, names) or cell.point
+    _require_relative_interior(cell, point, names)
     red = lambda e: reduce_modulo(affine_piece(e, point), cell.hull, names)  # noqa: E731
     sign = [{j: evaluate(m, point) >= 0 for j, m in ms.items()} for ms in margins]
     feasible = [all(sg.values()) for sg in sign]
@@ -183,6 +185,17 @@ def _cell_facts(cell, names, rows, rates, bases, margins, unbounded):
     facet_bounds = tuple((i, bounds[i]) for i, st in enumerate(status) if st == "facet")
     key = (tuple(status), facet_bounds, corners)
     return key, point, tuple(status), bounds, tuple(sorted(corners, key=corner_text))
+
+
+def _require_relative_interior(cell, point, names) -> None:
+    """The sign argument reads each margin at a relative-interior point of the cell: every atom that
+    is not an implicit equality of the cell must hold strictly there (loud if not)."""
+    for atom in cell.atoms:
+        if eval_affine(atom.form, point) > 0:
+            continue
+        rest = reduce_modulo(atom.form, cell.hull, names)
+        if rest.coeffs or rest.const != 0:
+            raise AssertionError(f"the point {point} is not inside the cell ({atom.text()})")
 
 
 def recheck(region: HRegion, rows, point, status, bounds, corners, pointed: bool = True) -> str:
@@ -224,7 +237,7 @@ def region_regimes(region: HRegion, R: Region, budget: Budget | None = None) -> 
         raise TooLarge(STAGE + " (margins)", count, MAX_MARGINS)
     unbounded = [_unbounded_without(rows, rates, i) for i in range(len(rows))]
     targets = [q.bound for q in rows] + [pos(m) for ms in margins for m in ms.values()]
-    cells = decompose(targets, R, names, budget=budget) if names else []
+    cells = decompose(targets, R, names, budget=budget)
     if len(cells) > MAX_REGION_CELLS:
         raise TooLarge(STAGE + " (cells)", len(cells), MAX_REGION_CELLS)
     groups: dict = {}

@@ -212,6 +212,8 @@ def region_latex(item) -> str:
             else:
                 rows.append(f"{tex(affine([(r, -c) for r, c in q.coeffs]))} &\\ge 0")
         system = "\\\\\n".join(rows) if rows else r"&\text{(no irredundant inequality)}"
+        if rr.pointed and not g.corners:
+            system = r"&\text{(the region is empty here)}"
         corners = ", ".join("$(" + ", ".join(tex(f) for f in c) + ")$" for c in g.corners) or "none"
         parts.append(f"Regime {g.index}, ${where}$:\n\\[\\begin{{aligned}}\n{system}\n\\end{{aligned}}\\]\n"
                      f"Corner points: {corners}.\\par")

@@ -15,8 +15,9 @@ import re
 from verifier.rates.regimes import RegionNotShown, RegionRegimes, corner_text, row_text
 from verifier.regimes.optimality import union_text
 
-CLAIM = ("the corners and statuses hold in the interior of each regime (re-checked exactly at the point "
-         "shown); on a threshold corners may coincide")
+CLAIM = ("the corners and statuses hold on each regime except on lower-dimensional boundaries (thresholds, "
+         "the edges of the exponent region), where corners may coincide and a facet may degenerate; "
+         "re-checked exactly at a point of every cell")
 
 
 def heading(rr: RegionRegimes) -> str:
@@ -38,7 +39,11 @@ def regime_facts(rr: RegionRegimes, g) -> dict:
         return [f"({i + 1}) {row_text(rr, g, i)}" if i < len(rr.region.inequalities) else row_text(rr, g, i)
                 for i in range(len(rr.rows)) if g.status[i] == kind]
     corners = ", ".join(corner_text(c) for c in g.corners) if rr.pointed else "none (the region contains a line)"
-    return {"where": union_text(g.pieces), "at": _point(g.point), "facets": "; ".join(listed("facet")) or "none",
+    facets = "; ".join(listed("facet")) or "none"
+    if rr.pointed and not g.corners:
+        facets = "none: the region is empty here" + (f" (without any one of {facets} it would not be)"
+                                                     if g.facets else "")
+    return {"where": union_text(g.pieces), "at": _point(g.point), "facets": facets,
             "redundant": "; ".join(listed("redundant")) or "none", "not shown": "; ".join(listed("not shown")),
             "corners": corners if g.corners or not rr.pointed else "none: the region is empty here"}
 
@@ -61,7 +66,8 @@ def region_lines(item) -> list[str]:
     lines = [heading(item)]
     for g in item.regimes:
         f = regime_facts(item, g)
-        lines += [f"  regime {g.index}: {f['where']}   (re-checked at {f['at']})",
+        at = f"re-checked at {f['at']}" if f["at"] else "re-checked exactly"
+        lines += [f"  regime {g.index}: {f['where']}   ({at})",
                   f"    facets: {f['facets']}", f"    redundant: {f['redundant']}"]
         if f["not shown"]:
             lines.append(f"    status not shown (the other rows contain a line): {f['not shown']}")
@@ -84,7 +90,8 @@ def region_markdown(item) -> list[str]:
     for g in item.regimes:
         f = regime_facts(item, g)
         facets = f["facets"] + (f"; not shown: {f['not shown']}" if f["not shown"] else "")
-        lines.append(f"| {g.index} | `{_cell(f['where'])}` (at {_cell(f['at'])}) | {_cell(facets)} | "
+        at = f" (at {_cell(f['at'])})" if f["at"] else ""
+        lines.append(f"| {g.index} | `{_cell(f['where'])}`{at} | {_cell(facets)} | "
                      f"{_cell(f['redundant'])} | {_cell(f['corners'])} |")
     lines.append("")
     if item.thresholds:
