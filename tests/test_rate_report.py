@@ -38,9 +38,13 @@ IC = H(("alpha",), "d1 <= 1", "d2 <= 1", "d1 + d2 <= max(1, alpha) + (1 - alpha)
        "d1 + 2*d2 <= max(1, alpha) + (1 - alpha)^+ + max(alpha, 1 - alpha)")
 
 
-def brute_vertices(region: HRegion, theta) -> set[tuple[F, F]]:
-    """Every pair of constraint lines solved by Cramer's rule, kept when it satisfies all rows."""
-    rows = [(q.coeff("d1"), q.coeff("d2"), evaluate(q.bound, theta)) for q in region.constraints()]
+def brute_vertices(region: HRegion, theta, skip: int | None = None, box: F | None = None) -> set[tuple[F, F]]:
+    """Every pair of constraint lines solved by Cramer's rule, kept when it satisfies all rows
+    (without row `skip`; with |d_k| <= box added when given)."""
+    rows = [(q.coeff("d1"), q.coeff("d2"), evaluate(q.bound, theta))
+            for j, q in enumerate(region.constraints()) if j != skip]
+    if box is not None:
+        rows += [(F(1), F(0), box), (F(-1), F(0), box), (F(0), F(1), box), (F(0), F(-1), box)]
     out = set()
     for (a, b, e), (c, d, f) in combinations(rows, 2):
         det = a * d - b * c
@@ -169,7 +173,7 @@ SHAPES = [{"d1": 1, "d2": 1}, {"d1": 2, "d2": 1}, {"d1": 1, "d2": 3}, {"d1": 1},
 @given(rows=st.lists(st.tuples(st.sampled_from(SHAPES), st.sampled_from(BOUNDS)), min_size=1, max_size=4),
        caps=st.tuples(st.sampled_from(BOUNDS), st.sampled_from(BOUNDS)),
        points=st.lists(st.fractions(min_value=0, max_value=3, max_denominator=11), min_size=1, max_size=6))
-def test_regime_corners_match_brute_force_enumeration(rows, caps, points):
+def test_regime_corners_and_statuses_match_brute_force_enumeration(rows, caps, points):
     specs = [({"d1": 1}, caps[0]), ({"d2": 1}, caps[1])] + rows
     region = HRegion("R", RATES, tuple(inequality(c, parse_expr(b)) for c, b in specs))
     rr = RR.region_regimes(region, parse_region("0 <= alpha <= 3"))
@@ -181,6 +185,14 @@ def test_regime_corners_match_brute_force_enumeration(rows, caps, points):
         g = rr.regime_at(theta)
         assert g is not None
         assert corner_values(g, theta) == brute_vertices(region, theta)
+        if a in (0, 3):     # statuses are claimed off the edges of the exponent region too
+            continue
+        # row i cuts iff its left side exceeds its right side somewhere without it; a box of 1000
+        # (far beyond every bound used here, all below 4) stands in for unboundedness
+        for i, q in enumerate(region.constraints()):
+            others = brute_vertices(region, theta, skip=i, box=F(1000))
+            cut = any(q.coeff("d1") * x + q.coeff("d2") * y > evaluate(q.bound, theta) for x, y in others)
+            assert g.status[i] == ("facet" if cut else "redundant"), (i, q.text(), theta)
 
 
 # --- gdof report / bundle ------------------------------------------------------------------------
