@@ -264,3 +264,28 @@ def test_bundle_draws_the_refuted_region_claim(mac_report, tmp_path):
     # the marked tuple is in the box and outside the MAC region, exactly
     assert rates["d1"] + rates["d2"] > max(theta["a1"], theta["a2"])
     assert rates["d1"] <= theta["a1"] and rates["d2"] <= theta["a2"]
+
+
+BOUNDS2 = ["a1", "a2", "max(a1, a2)", "(a1 - a2)^+ + a2/2", "min(a1, 1) + a2/2", "1 + (a2 - 1)^+",
+           "max(a1, 1 - a2) + 1/3"]
+
+
+@settings(max_examples=max(5, settings.default.max_examples // 4), deadline=None)
+@given(rows=st.lists(st.tuples(st.sampled_from(SHAPES[:3]), st.sampled_from(BOUNDS2)), min_size=1, max_size=3),
+       caps=st.tuples(st.sampled_from(BOUNDS2), st.sampled_from(BOUNDS2)),
+       points=st.lists(st.tuples(st.fractions(min_value=0, max_value=2, max_denominator=7),
+                                 st.fractions(min_value=0, max_value=2, max_denominator=7)), min_size=1, max_size=6))
+def test_two_exponents_corners_and_statuses_match_brute_force(rows, caps, points):
+    specs = [({"d1": 1}, caps[0]), ({"d2": 1}, caps[1])] + rows
+    region = HRegion("R", RATES, tuple(inequality(c, parse_expr(b)) for c, b in specs))
+    rr = RR.region_regimes(region, parse_region("0 <= a1 <= 2, 0 <= a2 <= 2"))
+    for a1, a2 in points:
+        theta = {"a1": a1, "a2": a2}
+        if any(eval_affine(t.form, theta) == 0 for t in rr.thresholds) or {a1, a2} & {0, 2}:
+            continue        # on a threshold or an edge of the exponent region: not claimed
+        g = rr.regime_at(theta)
+        assert corner_values(g, theta) == brute_vertices(region, theta)
+        for i, q in enumerate(region.constraints()):
+            others = brute_vertices(region, theta, skip=i, box=F(1000))
+            cut = any(q.coeff("d1") * x + q.coeff("d2") * y > evaluate(q.bound, theta) for x, y in others)
+            assert g.status[i] == ("facet" if cut else "redundant"), (i, q.text(), theta)
