@@ -241,6 +241,8 @@ def test_report_shows_each_region_once_in_every_format(mac_report):
     assert "as under the claim 'sum' above" in text
     assert "corners: (0, 0), (0, a2), (a1 - a2, a2), (a1, 0)" in text
     assert "facets: (2) d2 <= a2; (3) d1 + d2 <= a1; d1 >= 0; d2 >= 0" in text
+    from verifier.report.markdown import render_html
+    assert "regimes of region capacity: 2 regime(s)" in render_html(mac_report)
     md = render_markdown(mac_report)
     assert "| corner points |" in md and "(a1 - a2, a2)" in md
     tex = render_latex(mac_report)
@@ -252,6 +254,22 @@ def test_report_shows_each_region_once_in_every_format(mac_report):
     assert [[F(x["const"]) for x in c] for c in corners if not any(x["coeffs"] for x in c)] == [[0, 0]]
     box, again = data["claims"][1]["regions"]                     # 'box == capacity': box first
     assert box["region"] == "box" and box["shown"] and again["see"] == "sum"
+
+
+def test_a_spent_budget_or_a_size_limit_shows_the_region_as_not_shown(monkeypatch):
+    import time
+    from verifier.core.budget import Budget
+    from verifier.rates import claims as RC
+    from workbench import rate_report
+    # exponent regions used nowhere else: workbench.rate_report keeps finished results per (region, R)
+    claim = RC.equal(MAC, MAC, parse_region("a1 >= 0, a2 >= 1/7"))
+    spent = Budget(0.001)
+    time.sleep(0.01)
+    (item,) = rate_report.region_regimes_of(claim, spent)
+    assert isinstance(item, RR.RegionNotShown) and "ran out of the claim's time budget" in item.reason
+    monkeypatch.setattr(RR, "MAX_REGION_CELLS", 1)
+    (item,) = rate_report.region_regimes_of(RC.equal(MAC, MAC, parse_region("a1 >= 0, a2 >= 1/5")), Budget())
+    assert isinstance(item, RR.RegionNotShown) and "size limit (2 > 1)" in item.reason
 
 
 def test_bundle_draws_the_refuted_region_claim(mac_report, tmp_path):

@@ -27,6 +27,8 @@ def region_regimes_of(claim, budget: Budget) -> list:
         key = (region, claim.region)
         try:
             if key not in _DONE:
+                if len(_DONE) >= 64:     # a long notebook session: keep the memo small
+                    _DONE.clear()
                 _DONE[key] = region_regimes(region, claim.region, budget)
             out.append(_DONE[key])
         except OutOfBudget as exc:          # TooLarge included: a named size limit
