@@ -56,13 +56,14 @@ class RegionRegime:
     """One regime: `pieces` (merged convex pieces of exponents), `point` (a relative-interior point
     of one of its cells, where everything was re-checked), the status of every constraint (index into
     region.constraints(): 'facet', 'redundant' or 'not shown'), every constraint's right side as an
-    affine form on the regime, and the corners (affine formulas in the region's rate order)."""
+    affine form on the regime (None for a row that is no facet there and whose right side is not one
+    affine form on the whole regime), and the corners (affine formulas in the region's rate order)."""
 
     index: int
     pieces: tuple[tuple[Atom, ...], ...]
     point: dict
     status: tuple[str, ...]
-    bounds: tuple[Affine, ...]
+    bounds: tuple[Affine | None, ...]
     corners: tuple[tuple[Affine, ...], ...]
     cells: int = 1
     dim: int = 0
@@ -121,6 +122,8 @@ def row_text(rr: RegionRegimes, regime: RegionRegime, i: int) -> str:
     q = rr.rows[i]
     if i >= len(rr.region.inequalities):
         return q.label
+    if regime.bounds[i] is None:
+        return q.text()
     return f"{q.lhs_text()} <= {to_text(regime.bounds[i])}"
 
 
@@ -251,6 +254,7 @@ def region_regimes(region: HRegion, R: Region, budget: Budget | None = None) -> 
     regimes = []
     for members in sorted(groups.values(), key=lambda g: tuple(g[0][0].point[n] for n in names)):
         cell, point, status, bounds, corners = members[0]
+        bounds = tuple(b if all(m[3][i] == b for m in members) else None for i, b in enumerate(bounds))
         pieces = tuple(merged([c.atoms for c, *_ in members], names, budget))
         regimes.append(RegionRegime(len(regimes), pieces, point, status, bounds, corners,
                                     len(members), cell.dim))

@@ -124,7 +124,7 @@ def region_json(item) -> dict:
     rr = item
     rows = [{"index": i, "text": rr.row_label(i)} for i in range(len(rr.rows))]
     regimes = [{"index": g.index, "where": union_text(g.pieces), "point": point_json(g.point), "dim": g.dim,
-                "cells": g.cells, "status": list(g.status), "bounds": [affine_json(b) for b in g.bounds],
+                "cells": g.cells, "status": list(g.status), "bounds": [None if b is None else affine_json(b) for b in g.bounds],
                 "corners": [[affine_json(f) for f in c] for c in g.corners]} for g in rr.regimes]
     cuts = [{"text": t.text, "form": affine_json(t.form) if t.form is not None else None,
              "between": [list(b) for b in t.between], "changes": list(t.changes)} for t in rr.thresholds]
