@@ -101,7 +101,30 @@ def write_plots(report: Report, folder: Path) -> list[tuple[str, str]]:
         for kind, fig, caption in made:
             save_figure(fig, plots / f"claim{k:02d}_{kind}", ("png", "pdf"))
             figures.append((f"plots/claim{k:02d}_{kind}.pdf", caption))
+    for k, entry in enumerate(report.claims, 1):
+        made = region_plot(entry)
+        if made is not None:
+            save_figure(made[0], plots / f"region{k:02d}", ("png", "pdf"))
+            figures.append((f"plots/region{k:02d}.pdf", made[1]))
     return figures
+
+
+def region_plot(entry):
+    """(figure, caption) for a refuted region claim over two rates: its regions at the refuting
+    exponent point, overlaid, with the refuting rate tuple marked; None when there is nothing to draw
+    (another verdict, more than two rates, a region unbounded there)."""
+    claim, witness = entry.rate_claim, entry.rate_witness
+    if entry.status != "refuted" or claim is None or witness is None or len(claim.first.rates) != 2:
+        return None
+    from verifier.expressions.expr import format_number
+    from .region_plots import region_figure
+    regions = [r for r in (claim.first, claim.second) if r is not None]
+    try:
+        fig = region_figure(regions, witness.theta, witness.rates)
+    except InputError:
+        return None
+    at = ", ".join(f"{n} = {format_number(v)}" for n, v in witness.theta.items())
+    return fig, f"{entry.name or entry.statement}: the regions at {at}, the refuting rate tuple marked"
 
 
 def write_contents(report: Report, folder: Path, case_path: str = "") -> None:

@@ -45,6 +45,7 @@ class Outcome:
     obligations: tuple = ()
     seconds: float = 0.0
     rate_witness: object = None                      # a rate-region claim's refuting pair (exponents, rates)
+    rate_regimes: list = field(default_factory=list)  # regimes of its H-form regions (report only)
 
     @property
     def verdicts(self) -> list:

@@ -35,6 +35,8 @@ def decide_rates(case_claim, solver="z3", timeout=30.0, cross_check=False, metho
     out.rate_witness = verdict.witness
     if method == "regimes":          # the report also says where each inequality is a facet
         out.notes += facet_notes(case_claim.claim, by_regimes, clock)
+        from .rate_report import region_regimes_of
+        out.rate_regimes = region_regimes_of(case_claim.claim, clock)
     return out
 
 

@@ -87,11 +87,12 @@ def region_figure(regions: Sequence[HRegion | VRegion], theta: Mapping[str, Frac
         if rates is not None:
             ax.plot([float(rates[x])], [float(rates[y])], "kx", markersize=7, gid="counterexample",
                     label="counterexample")
+        ax.margins(0.08)           # a counterexample on a corner stays visible inside the frame
         ax.autoscale_view()
         ax.set_xlabel(x)
         ax.set_ylabel(y)
         at = ", ".join(f"{k} = {v}" for k, v in theta.items())
         ax.set_title(f"at {at}")
-        ax.legend(loc="upper right")
+        ax.legend(loc="best")
     fig.gdof = {"polygons": exact, "rates": dict(rates) if rates else None, "theta": dict(theta)}
     return fig

@@ -58,7 +58,8 @@ def case_report(case, case_claims, solver="z3", timeout=30.0, cross_check=False,
     """Decide every chosen case claim region by region (workbench.decide, method 'regimes': the same
     plan of obligations as `check`, so the verdicts agree claim for claim) and build the Report: one
     entry per claim, with a section per part whose sub-region is not empty."""
-    entries = []
+    from .rate_report import once_per_case
+    entries, shown = [], {}
     for cc in case_claims:
         outcome = decide(cc, solver, timeout, cross_check, "regimes", budget, workers, progress)
         sections = tuple(claim_report(p.result, p.label, None) for p in outcome.parts)
@@ -66,7 +67,10 @@ def case_report(case, case_claims, solver="z3", timeout=30.0, cross_check=False,
         if outcome.rate_witness is not None:   # a rate-region claim: exponent point and rate tuple
             notes += tuple(outcome.rate_witness.lines())
         entries.append(ClaimEntry(cc.claim.name, cc.claim.text(), outcome.status, sections, cc.expect,
-                                  notes, tuple(outcome.obligations)))
+                                  notes, tuple(outcome.obligations),
+                                  once_per_case(shown, cc.claim, outcome.rate_regimes),
+                                  cc.claim if outcome.rate_witness is not None else None,
+                                  outcome.rate_witness))
     if progress:
         sys.stderr.write("\r" + " " * 80 + "\r")
     return build_report(entries, case.title, case.source, "z3 and cvc5" if cross_check else solver,

@@ -13,6 +13,8 @@ Knows nothing of channels.  The pipeline, one module per stage:
   membership.py exact membership of a numeric rate tuple at a numeric exponent point (exact LP for
                the convex hull), the vertices of an H-form there: the re-checks of every witness
   queries.py   the violation questions of each kind, as verifier.solvers.smt Queries, with exact re-checks
+  regimes.py   an H-form regime by regime of the exponents: irredundant inequalities, corner points as
+               affine formulas, thresholds (for `gdof report`; every fact re-checked exactly)
   decide.py    RateClaim -> RateVerdict through verifier.core.verdicts (unknown never reads as proved),
                with the counterexample: an exponent point AND a rate tuple, both exact and re-checked
 
@@ -28,4 +30,5 @@ __all__, __getattr__, __dir__ = lazy_names(__name__, {
     "claims": ("RateClaim", "subset", "equal", "contains", "max_of", "same_support", "redundant"),
     "support": ("support_expr", "dual_vertices"),
     "decide": ("RateVerdict",),
+    "regimes": ("region_regimes", "RegionRegimes", "RegionNotShown"),
 })

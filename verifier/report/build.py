@@ -124,6 +124,9 @@ class ClaimEntry:
     expect: str | None = None
     notes: tuple[str, ...] = ()
     obligations: tuple = field(default=(), compare=False, repr=False)   # verifier.core.verdicts.Obligation
+    regions: tuple = ()   # verifier.rates.regimes RegionRegimes / RegionNotShown of a region claim
+    rate_claim: object = field(default=None, compare=False, repr=False)     # verifier.rates RateClaim
+    rate_witness: object = field(default=None, compare=False, repr=False)   # its RateWitness, if any
 
 
 @dataclass(frozen=True)

@@ -109,9 +109,27 @@ def report_json(report: Report) -> dict:
             "source": report.source, "solver": report.solver, "versions": dict(report.versions),
             "summary": report.status_counts,
             "claims": [{"name": c.name, "statement": c.statement, "status": c.status, "expected": c.expect,
-                        "notes": list(c.notes), "parts": [section_json(s) for s in c.sections]}
+                        "notes": list(c.notes), "parts": [section_json(s) for s in c.sections],
+                        "regions": [region_json(r) for r in c.regions]}
                        for c in report.claims],
             "caution": report.caution}
+
+
+def region_json(item) -> dict:
+    """Exact data (numbers as strings, as the rest of the report JSON)."""
+    from verifier.rates.regimes import RegionNotShown
+    from verifier.regimes.optimality import union_text
+    if isinstance(item, RegionNotShown):
+        return {"region": item.name, "shown": False, "reason": item.reason, "see": item.see or None}
+    rr = item
+    rows = [{"index": i, "text": rr.row_label(i)} for i in range(len(rr.rows))]
+    regimes = [{"index": g.index, "where": union_text(g.pieces), "point": point_json(g.point), "dim": g.dim,
+                "cells": g.cells, "status": list(g.status), "bounds": [None if b is None else affine_json(b) for b in g.bounds],
+                "corners": [[affine_json(f) for f in c] for c in g.corners]} for g in rr.regimes]
+    cuts = [{"text": t.text, "form": affine_json(t.form) if t.form is not None else None,
+             "between": [list(b) for b in t.between], "changes": list(t.changes)} for t in rr.thresholds]
+    return {"region": rr.region.name, "shown": True, "rates": list(rr.region.rates), "parameters": list(rr.names),
+            "rows": rows, "bounded": rr.bounded, "pointed": rr.pointed, "regimes": regimes, "thresholds": cuts}
 
 
 def render_json(report: Report) -> str:

@@ -177,6 +177,7 @@ def claim_latex(entry) -> str:
     parts = [f"\\subsection*{{{escape(entry.name or entry.statement)}}}",
              f"Verdict: \\textbf{{{entry.status}}}{escape(declared)}. Claim: \\texttt{{{escape(entry.statement)}}}\\par"]
     parts += [escape(n) + "\\par" for n in entry.notes]
+    parts += [region_latex(item) for item in entry.regions]
     sentence = referee_sentence(entry)
     if sentence:
         parts.append(f"% paste-ready: {sentence}")
@@ -186,6 +187,38 @@ def claim_latex(entry) -> str:
             parts.append(f"\\paragraph{{Part {k} of {len(entry.sections)}}} "
                          f"{escape(section.label or 'whole region')}: \\textbf{{{section.status}}}.")
         parts.append(section_latex(section))
+    return "\n".join(parts)
+
+
+def region_latex(item) -> str:
+    """Per regime: its exponents, the region as an `aligned` system of its irredundant inequalities,
+    and the list of corner points."""
+    from verifier.expressions.expr import rename
+    from verifier.rates.regimes import RegionNotShown
+    from verifier.report.regions import changes_text, heading, not_shown_text, subscripted
+    if isinstance(item, RegionNotShown):
+        return escape(not_shown_text(item)) + ".\\par"
+    rr, names = item, subscripted(item.region.rates)
+    tex = lambda e: expr_to_latex(rename(e, names))  # noqa: E731
+    parts = [f"\\paragraph{{Region \\texttt{{{escape(rr.region.name)}}} by regime.}} {escape(heading(rr))}.\\par"]
+    for g in rr.regimes:
+        conds = [condition_latex(p) for p in g.pieces]
+        where = conds[0] if len(conds) == 1 else r"\text{ or }".join(f"({c})" for c in conds)
+        rows = []
+        for i in g.facets:
+            q = rr.rows[i]
+            if i < len(rr.region.inequalities):
+                rows.append(f"{tex(affine(q.coeffs))} &\\le {tex(g.bounds[i])}")
+            else:
+                rows.append(f"{tex(affine([(r, -c) for r, c in q.coeffs]))} &\\ge 0")
+        system = "\\\\\n".join(rows) if rows else r"&\text{(no irredundant inequality)}"
+        if rr.pointed and not g.corners:
+            system = r"&\text{(the region is empty here)}"
+        corners = ", ".join("$(" + ", ".join(tex(f) for f in c) + ")$" for c in g.corners) or "none"
+        parts.append(f"Regime {g.index}, ${where}$:\n\\[\\begin{{aligned}}\n{system}\n\\end{{aligned}}\\]\n"
+                     f"Corner points: {corners}.\\par")
+    for t in rr.thresholds:
+        parts.append(f"Threshold {escape(changes_text(t))}.\\par")
     return "\n".join(parts)
 
 

@@ -43,6 +43,9 @@ def claim_markdown(entry: ClaimEntry) -> list[str]:
     if entry.expect and entry.expect != entry.status:
         lines += [f"> Declared verdict was **{entry.expect}**.", ""]
     lines += [f"- {n}" for n in entry.notes] + ([""] if entry.notes else [])
+    from verifier.report.regions import region_markdown
+    for item in entry.regions:
+        lines += region_markdown(item)
     from verifier.report.latex import referee_sentence
     sentence = referee_sentence(entry)
     if sentence:
@@ -79,6 +82,8 @@ def render_html(report: Report) -> str:
         parts.append(f"<h4>{html.escape(entry.name or entry.statement)}: <b>{entry.status}</b></h4>"
                      f"<p><code>{html.escape(entry.statement)}</code></p>")
         parts += [f"<p>{html.escape(n)}</p>" for n in entry.notes]
+        from verifier.report.regions import region_lines
+        parts += [f"<pre>{html.escape(chr(10).join(region_lines(item)))}</pre>" for item in entry.regions]
         for k, s in enumerate(entry.sections, 1):
             heading = part_heading(entry, k, s).strip()
             parts.append(f"<p><i>{html.escape(heading)}</i></p>" if heading else "")

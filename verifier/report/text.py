@@ -105,6 +105,9 @@ def claim_lines(entry: ClaimEntry) -> list[str]:
     declared = f" (declared {entry.expect})" if entry.expect and entry.expect != entry.status else ""
     lines = [f"{entry.name or entry.statement} -- {entry.status}{declared}", f"  {entry.statement}"]
     lines += [f"  note: {n}" for n in entry.notes]
+    from verifier.report.regions import region_lines
+    for item in entry.regions:
+        lines += ["  " + x for x in region_lines(item)]
     for k, section in enumerate(entry.sections, 1):
         lines += section_lines(section, part_heading(entry, k, section))
     return lines
