@@ -42,9 +42,11 @@ from verifier.expressions.expr import affine
 from verifier.expressions.region import TEXT, Atom, Notation, Polyhedron, constraint_text
 from verifier.geometry.lp import feasible
 from verifier.geometry.shape import difference, implied, irredundant, nice_point
-from verifier.regimes.spec import Spec, obligations, targets
+from verifier.regimes.spec import Spec, obligations
 
 MAX_PIECES = 200   # raw pieces (cells that hold somewhere, failure pieces) before merging
+MAX_MERGE_TESTS = 200   # pair tests when merging (each an exact set difference); beyond: left unmerged
+MAX_WIDEN_PIECES = 16  # pieces of one set that widening still tries to shorten
 STAGE = "optimality region"
 
 
@@ -137,6 +139,8 @@ def _valid_version(atom: Atom, other: Sequence[Atom], names) -> Atom | None:
 
 def union_if_convex(p: Sequence[Atom], q: Sequence[Atom], names: Sequence[str]) -> tuple[Atom, ...] | None:
     """The polyhedron equal to P u Q, or None when this test finds none (module docstring, step 3)."""
+    if feasible([a.relaxed() for a in list(p) + list(q)], names) is None:
+        return None      # closures apart: the union of two disjoint closed-apart sets is not convex
     hull = []
     for mine, other in ((p, q), (q, p)):
         for a in mine:
@@ -150,15 +154,20 @@ def union_if_convex(p: Sequence[Atom], q: Sequence[Atom], names: Sequence[str]) 
 
 
 def merged(pieces: Sequence[Sequence[Atom]], names: Sequence[str], budget: Budget | None = None):
-    """Pieces (each non-empty) merged pairwise while some union is convex; irredundant each."""
+    """Pieces (each non-empty) merged pairwise while some union is convex; irredundant each.  At
+    most MAX_MERGE_TESTS pair tests: beyond that the remaining pieces are left as they are (still
+    exact, less simplified)."""
     out = [irredundant([normalised_atom(a) for a in p], names)[0] for p in pieces]
-    changed = True
-    while changed:
+    changed, tests = True, 0
+    while changed and tests < MAX_MERGE_TESTS:
         changed = False
         for i in range(len(out)):
             for j in range(i + 1, len(out)):
                 if budget is not None:
                     budget.check(STAGE)
+                tests += 1
+                if tests > MAX_MERGE_TESTS:    # stop simplifying: the pieces stay exact, unmerged
+                    break
                 u = union_if_convex(out[i], out[j], names)
                 if u is not None:
                     out[i] = u
@@ -248,13 +257,20 @@ def _units(piece: Sequence[Atom]) -> list[tuple[Atom, ...]]:
 def widened(pieces: Sequence[Sequence[Atom]], context: Sequence[Atom], names, budget=None):
     """Drop a constraint (an equality as a whole) of a piece whenever the larger piece, within the
     context, still lies in the union; then drop pieces the others cover.  The union is unchanged
-    (exact set differences), the text shorter; the pieces may then overlap."""
-    pieces = [list(p) for p in pieces]
+    (exact set differences), the text shorter; the pieces may then overlap.  Each test is a set
+    difference against every piece, so beyond MAX_WIDEN_PIECES pieces or MAX_MERGE_TESTS tests the
+    pieces are left as they are (still exact, less simplified)."""
+    if len(pieces) > MAX_WIDEN_PIECES:
+        return [tuple(p) for p in pieces]
+    pieces, tests = [list(p) for p in pieces], 0
     for k in range(len(pieces)):
         units, i = _units(pieces[k]), 0
         while i < len(units):
             if budget is not None:
                 budget.check(STAGE)
+            tests += 1
+            if tests > MAX_MERGE_TESTS:
+                return [tuple(p) for p in pieces]
             trial = [a for j, u in enumerate(units) if j != i for a in u]
             if difference(trial + list(context), [tuple(p) for p in pieces], names):
                 i += 1
@@ -280,27 +296,27 @@ class NotExact(Exception):
 
 
 def _raw_pieces(spec: Spec, regimes) -> tuple[list, list]:
-    tgts = targets(spec)
-    index = tuple(next(i for i, t in enumerate(tgts) if t.key == e.key) for e in spec.exprs)
+    """The holds and fails pieces, regime by regime: a regime's polytopes are exactly the union of its
+    cells (verifier.regimes.polytope), and its formulas are the same on all of them, so working on
+    regimes rather than cells gives the same sets with far fewer pieces to merge."""
     holds, fails = [], []
     for r in regimes:
-        for cell in r.cells:
-            status = getattr(cell.extra, "status", "")
-            if status == "proved":
-                holds.append(tuple(cell.atoms))
-                continue
-            if status != "refuted":
-                raise NotExact(f"regime {r.index} is undecided")
-            forms = tuple(cell.forms[i] for i in index)
-            extra, empty = [], False
-            for ob in obligations(spec, forms):
-                if not ob.form.coeffs:
-                    empty = empty or not ob.holds({})
-                else:
-                    extra.append(ob)
-            if not empty and feasible(list(cell.atoms) + extra, spec.names) is not None:
-                holds.append(tuple(cell.atoms) + tuple(extra))
-            fails += [tuple(f.polyhedron.atoms) for f in cell.extra.failures]
+        if r.status == "proved":
+            holds += [tuple(p.polyhedron.atoms) for p in r.polytopes]
+            continue
+        if r.status != "refuted":
+            raise NotExact(f"regime {r.index} is undecided")
+        extra, empty = [], False
+        for ob in obligations(spec, r.forms):
+            if not ob.form.coeffs:
+                empty = empty or not ob.holds({})
+            else:
+                extra.append(ob)
+        if not empty:
+            for p in r.polytopes:
+                if feasible(list(p.polyhedron.atoms) + extra, spec.names) is not None:
+                    holds.append(tuple(p.polyhedron.atoms) + tuple(extra))
+        fails += [tuple(f.polyhedron.atoms) for f in r.failures]
     if len(holds) + len(fails) > MAX_PIECES:
         raise NotExact(f"{len(holds) + len(fails)} pieces before merging (limit {MAX_PIECES})")
     return holds, fails
