@@ -29,6 +29,7 @@ from verifier.report.json_out import counterexample_json, render_json
 from verifier.report.latex import latex_document, render_latex
 from verifier.report.markdown import render_markdown
 
+from .bundled import CASE_HELP, resolve_case
 from .casefile import load_case
 from .output_target import shown_path
 from verifier.core.verdicts import tally_sentence
@@ -40,10 +41,10 @@ from .smtlib_files import write_obligations
 
 
 def configure(p) -> None:
-    p.add_argument("case", help="a case file (TOML)")
+    p.add_argument("case", help=CASE_HELP)
     p.add_argument("outdir", help="folder to create (refused if it exists, unless --force)")
     p.add_argument("--claim", action="append", default=[], metavar="NAME",
-                   help="bundle only the named claim (repeatable)")
+                   help="bundle only the named claim, or the one claim whose name starts so (repeatable)")
     p.add_argument("--workers", type=int, default=1, help="processes for the region-wise prover (default 1)")
     p.add_argument("--force", action="store_true", help="replace an existing OUTDIR (atomically)")
 
@@ -154,6 +155,7 @@ def _swap_in(new: Path, out: Path) -> None:
 
 
 def run(args) -> int:
+    args.case = resolve_case(args.case)   # a local file, else a bundled case of that name
     from .output_target import check_bundle_target, write_error
     check_bundle_target(args.outdir, args.case, args.force)  # refuse before the long proof, not after
     case = load_case(args.case, args.solver, args.timeout, getattr(args, "budget", None))
