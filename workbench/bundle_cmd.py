@@ -29,6 +29,7 @@ from verifier.report.build import Report
 from verifier.core.verdicts import REFUTED
 from verifier.report.json_out import counterexample_json, point_json, render_json
 from verifier.report.latex import latex_document, render_latex
+from verifier.report.latex_math import caption_math
 from verifier.report.markdown import render_markdown
 
 from .bundled import CASE_HELP, resolve_case
@@ -130,15 +131,15 @@ def write_plots(report: Report, folder: Path) -> list[tuple[str, str]]:
     for k, s in enumerate(report.sections, 1):
         if not s.names or not s.regimes:
             continue
-        made = [("slice", slice_figure(s), f"{s.title}: both sides along {s.names[0]}")]
+        made = [("slice", slice_figure(s))]
         if len(s.names) == 2:
-            made.append(("map", regime_map(s), f"{s.title}: regimes in ({s.names[0]}, {s.names[1]})"))
+            made.append(("map", regime_map(s)))
         if s.optimality is not None and s.optimality.fails and len(s.optimality.names) == 2:
             from .exact_plot import exact_map
-            made.append(("exact", exact_map(s), f"{s.title}: where the claim holds and where it fails"))
-        for kind, fig, caption in made:
+            made.append(("exact", exact_map(s)))
+        for kind, fig in made:
             save_figure(fig, plots / f"claim{k:02d}_{kind}", ("png", "pdf"))
-            figures.append((f"plots/claim{k:02d}_{kind}.pdf", caption))
+            figures.append((f"plots/claim{k:02d}_{kind}.pdf", caption_math(s, kind)))
     return figures
 
 

@@ -67,7 +67,7 @@ def case_report(case, case_claims, solver="z3", timeout=30.0, cross_check=False,
         if outcome.rate_witness is not None:   # a rate-region claim: exponent point and rate tuple
             notes += tuple(outcome.rate_witness.lines())
         entries.append(ClaimEntry(cc.claim.name, cc.claim.text(), outcome.status, sections, cc.expect,
-                                  notes, tuple(outcome.obligations)))
+                                  notes, tuple(outcome.obligations), cc.claim))
     if progress:
         sys.stderr.write("\r" + " " * 80 + "\r")
     return build_report(entries, case.title, case.source, "z3 and cvc5" if cross_check else solver,

@@ -130,6 +130,7 @@ class ClaimEntry:
     expect: str | None = None
     notes: tuple[str, ...] = ()
     obligations: tuple = field(default=(), compare=False, repr=False)   # verifier.core.verdicts.Obligation
+    claim: Claim | None = field(default=None, compare=False, repr=False)  # the claim as stated (LaTeX sets it as math)
 
 
 @dataclass(frozen=True)
@@ -207,7 +208,7 @@ def build_report(proofs, title: str = "", source: str = "", solver: str = "z3",
         elif isinstance(item, RegimeProof):
             item = claim_report(item)
         if isinstance(item, ClaimReport):
-            item = ClaimEntry(item.name, item.statement, item.status, (item,), item.expect)
+            item = ClaimEntry(item.name, item.statement, item.status, (item,), item.expect, claim=item.claim)
         entries.append(item)
     if versions is None:
         from verifier.solvers.smt import versions as solver_versions
