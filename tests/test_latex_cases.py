@@ -134,3 +134,21 @@ def test_case_file_names_the_bad_cases_value_and_its_place():
     with pytest.raises(CaseFileError, match=r"inner\.scheme: '\\begin\{cases\}' without '\\end\{cases\}'.*"
                                             r"line 10, column 11"):
         build_case("case.toml", text, tomllib.loads(text))
+
+
+@pytest.mark.parametrize("broken,message", [
+    (RIGHT_TEX + "$", r"unbalanced '\$'"),
+    (RIGHT_TEX.replace(r"\begin{cases}", r"\begin{array}").replace(r"\end{cases}", r"\end{array}"),
+     r"unsupported environment 'array'"),
+    (r"\alpha \end{cases}", r"'\\end\{cases\}' without '\\begin\{cases\}'"),
+])
+def test_the_command_line_reports_malformed_latex_on_one_line(tmp_path, capsys, broken, message):
+    import re
+    from tests.case_files import write
+    from workbench.cli import main
+    path = write(tmp_path, CASE.format(scheme="'" + broken + "'"))
+    assert main(["check", path]) == 2
+    err = capsys.readouterr().err
+    assert err.count("\n") == 1 and "Traceback" not in err
+    assert err.startswith("gdof: error: ") and "inner.scheme" in err and re.search(message, err)
+    assert re.search(r"line 10, column \d+", err)
