@@ -39,7 +39,43 @@ def test_counterexample_files_are_exact(bundle, report):
     data = json.loads((bundle / "counterexamples.json").read_text())["counterexamples"]
     assert [d["point"] for d in data] == [{k: str(v) for k, v in c.point.items()} for c in cex]
     rows = (bundle / "counterexamples.csv").read_text().splitlines()
-    assert rows[0].startswith("claim,regime_label,alpha,gamma,lhs,rhs") and len(rows) == 1 + len(cex)
+    assert rows[0].startswith("claim,part,regime,regime_constraints,alpha,gamma,lhs,rhs") and \
+        len(rows) == 1 + len(cex)
+
+
+def test_csv_rows_name_the_regime_holding_each_point_and_the_active_bounds(bundle, report):
+    """Checked against the report's own regime table: the row's constraints, read back as a region,
+    contain the row's point, and the active bounds are those of the re-checked counterexample."""
+    import csv
+    from fractions import Fraction
+    from verifier.text.parse import parse_region
+    rows = list(csv.DictReader((bundle / "counterexamples.csv").open()))
+    cex = report.sections[0].counterexamples
+    assert rows and len(rows) == len(cex)
+    tables = {str(r.index): r.constraints for r in report.sections[0].regimes}
+    for row, c in zip(rows, cex):
+        point = {n: Fraction(row[n]) for n in ("alpha", "gamma")}
+        assert row["regime"] in tables and row["regime_constraints"] == tables[row["regime"]]
+        assert parse_region(row["regime_constraints"]).contains(point)
+        assert row["lhs_active"] == "; ".join(c.lhs_active) and row["rhs_active"] == "; ".join(c.rhs_active)
+        assert row["lhs_active"] and row["rhs_active"]
+    assert len({row["regime"] for row in rows}) > 1   # the demo's failures lie in several regimes
+
+
+def test_a_forgotten_regime_is_a_csv_row_with_its_uncovered_point(tmp_path):
+    from workbench.bundled import resolve_case
+    from workbench.check_cmd import select
+    from workbench.casefile import load_case
+    from workbench.report_cmd import case_report
+    case = load_case(resolve_case("demo/z_uplink_manuscript.toml"))
+    claims = select(case, ["Theorem 1: the scheme meets"])
+    text = bundle_cmd.counterexamples_csv(case_report(case, claims))
+    head, row = text.splitlines()
+    # the point the coverage obligation finds (gdof check prints the same: alpha = 3, beta = 1)
+    assert head.startswith("claim,part,regime,regime_constraints,alpha,beta,lhs")
+    assert "coverage of 'scheme',,,3,1,,," in row and row.endswith("no regime of 'scheme' contains this point")
+    point = {"alpha": 3, "beta": 1}
+    assert case.assume.contains(point) and not any(p.where.contains(point) for p in case.piecewise["scheme"].pieces)
 
 
 def _no_leftovers(parent):

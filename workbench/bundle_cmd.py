@@ -2,7 +2,8 @@
 
 Contents: report.md, report.tex (fragment) and main.tex (standalone, compiles with pdflatex),
 report.json, plots/ (PNG + PDF per claim: a 1-D slice, and a regime map for two-parameter claims),
-counterexamples.json / .csv (exact fractions as text), versions.txt (solvers, libraries, caution).
+counterexamples.json / .csv (exact fractions as text; the regime holding each point and the active bounds
+there, uncovered points too), versions.txt (solvers, libraries, caution).
 
 Why atomic: a bundle is evidence; a half-written one (interrupted run, full disk, a plotting bug)
 must never be mistaken for a finished one.  The folder is built in a temporary sibling directory and
@@ -25,10 +26,13 @@ from pathlib import Path
 
 from verifier.core.errors import InputError
 from verifier.report.build import Report
-from verifier.report.json_out import counterexample_json, render_json
+from verifier.core.verdicts import REFUTED
+from verifier.report.json_out import counterexample_json, point_json, render_json
 from verifier.report.latex import latex_document, render_latex
+from verifier.report.latex_math import caption_math
 from verifier.report.markdown import render_markdown
 
+from .bundled import CASE_HELP, resolve_case
 from .casefile import load_case
 from .output_target import shown_path
 from verifier.core.verdicts import tally_sentence
@@ -40,23 +44,55 @@ from .smtlib_files import write_obligations
 
 
 def configure(p) -> None:
-    p.add_argument("case", help="a case file (TOML)")
+    p.add_argument("case", help=CASE_HELP)
     p.add_argument("outdir", help="folder to create (refused if it exists, unless --force)")
     p.add_argument("--claim", action="append", default=[], metavar="NAME",
-                   help="bundle only the named claim (repeatable)")
+                   help="bundle only the named claim, or the one claim whose name starts so (repeatable)")
     p.add_argument("--workers", type=int, default=1, help="processes for the region-wise prover (default 1)")
     p.add_argument("--force", action="store_true", help="replace an existing OUTDIR (atomically)")
 
 
-def counterexample_rows(report: Report) -> tuple[list[str], list[list[str]]]:
-    names = sorted({n for s in report.sections for c in s.counterexamples for n in c.point})
-    head = ["claim", "regime_label"] + names + ["lhs", "rhs", "difference", "strictly_inside", "origin"]
-    rows = []
+def _located(report: Report):
+    """(section, counterexample, its JSON shape, the regime rows holding it) for every counterexample."""
     for s in report.sections:
-        for c in s.counterexamples:
-            d = counterexample_json(c)
-            rows.append([s.name, s.label] + [d["point"].get(n, "") for n in names]
-                        + [d["lhs"], d["rhs"], d["difference"], str(c.strictly_inside).lower(), c.origin])
+        for k, c in enumerate(s.counterexamples):
+            yield s, c, counterexample_json(c), s.regimes_of(k)
+
+
+def _joined(items) -> str:
+    """Several values in one CSV cell ("tin; hk"): a spreadsheet keeps them in one column."""
+    return "; ".join(str(x) for x in items)
+
+
+def _uncovered(report: Report):
+    """(claim name, bound name, point) of every point no regime of a regime-wise bound covers: the
+    refutation of a claim with a forgotten regime (workbench.decide keeps (name, point) as the evidence
+    of its coverage obligation), which has no side values and so no Counterexample."""
+    for entry in report.claims:
+        for ob in entry.obligations:
+            if ob.status == REFUTED and isinstance(ob.evidence, tuple) and len(ob.evidence) == 2:
+                yield entry.name, ob.evidence[0], point_json(ob.evidence[1])
+
+
+def counterexample_rows(report: Report) -> tuple[list[str], list[list[str]]]:
+    """One row per counterexample: its claim and part, the regime of the claim's regime table that
+    holds it (number and constraints; several on a shared boundary), the point, both sides' values and
+    the named bounds active on each side there; then one row per uncovered point, whose sides are
+    undefined there (docs/report-schema.md)."""
+    uncovered = list(_uncovered(report))
+    names = sorted({n for s in report.sections for c in s.counterexamples for n in c.point}
+                   | {n for _, _, point in uncovered for n in point})
+    head = (["claim", "part", "regime", "regime_constraints"] + names
+            + ["lhs", "rhs", "difference", "lhs_active", "rhs_active", "strictly_inside", "origin"])
+    rows = []
+    for s, c, d, regimes in _located(report):
+        rows.append([s.name, s.label, _joined(r.index for r in regimes), _joined(r.constraints for r in regimes)]
+                    + [d["point"].get(n, "") for n in names]
+                    + [d["lhs"], d["rhs"], d["difference"], _joined(c.lhs_active), _joined(c.rhs_active),
+                       str(c.strictly_inside).lower(), c.origin])
+    for claim, bound, point in uncovered:
+        rows.append([claim, f"coverage of '{bound}'", "", ""] + [point.get(n, "") for n in names]
+                    + ["", "", "", "", "", "", f"no regime of '{bound}' contains this point"])
     return head, rows
 
 
@@ -70,9 +106,12 @@ def counterexamples_csv(report: Report) -> str:
 
 
 def counterexamples_json(report: Report) -> str:
-    data = [{"claim": s.name, "regime_label": s.label, **counterexample_json(c)}
-            for s in report.sections for c in s.counterexamples]
-    return json.dumps({"counterexamples": data, "caution": report.caution}, indent=2, ensure_ascii=False) + "\n"
+    data = [{"claim": s.name, "part": s.label,
+             "regimes": [{"index": r.index, "constraints": r.constraints} for r in regimes], **d}
+            for s, _, d, regimes in _located(report)]
+    uncovered = [{"claim": claim, "bound": bound, "point": point} for claim, bound, point in _uncovered(report)]
+    return json.dumps({"counterexamples": data, "uncovered": uncovered, "caution": report.caution}, indent=2,
+                      ensure_ascii=False) + "\n"
 
 
 def versions_text(report: Report, case_path: str = "") -> str:
@@ -92,15 +131,15 @@ def write_plots(report: Report, folder: Path) -> list[tuple[str, str]]:
     for k, s in enumerate(report.sections, 1):
         if not s.names or not s.regimes:
             continue
-        made = [("slice", slice_figure(s), f"{s.title}: both sides along {s.names[0]}")]
+        made = [("slice", slice_figure(s))]
         if len(s.names) == 2:
-            made.append(("map", regime_map(s), f"{s.title}: regimes in ({s.names[0]}, {s.names[1]})"))
+            made.append(("map", regime_map(s)))
         if s.optimality is not None and s.optimality.fails and len(s.optimality.names) == 2:
             from .exact_plot import exact_map
-            made.append(("exact", exact_map(s), f"{s.title}: where the claim holds and where it fails"))
-        for kind, fig, caption in made:
+            made.append(("exact", exact_map(s)))
+        for kind, fig in made:
             save_figure(fig, plots / f"claim{k:02d}_{kind}", ("png", "pdf"))
-            figures.append((f"plots/claim{k:02d}_{kind}.pdf", caption))
+            figures.append((f"plots/claim{k:02d}_{kind}.pdf", caption_math(s, kind)))
     for k, entry in enumerate(report.claims, 1):
         made = region_plot(entry)
         if made is not None:
@@ -177,6 +216,7 @@ def _swap_in(new: Path, out: Path) -> None:
 
 
 def run(args) -> int:
+    args.case = resolve_case(args.case)   # a local file, else a bundled case of that name
     from .output_target import check_bundle_target, write_error
     check_bundle_target(args.outdir, args.case, args.force)  # refuse before the long proof, not after
     case = load_case(args.case, args.solver, args.timeout, getattr(args, "budget", None))

@@ -21,7 +21,8 @@ from pathlib import Path
 from verifier.core.errors import CaseFileError, GdofError, InputError
 
 from . import verdict_text as vt
-from .casefile import load_case
+from .bundled import bundled_name, casebook_root, default_casebook, resolve_folder, shown
+from .casefile import load_case, read_toml
 from .decide import decide
 from .exit_codes import EXIT_INPUT, EXIT_OK, EXIT_REFUTED
 
@@ -107,12 +108,20 @@ def exit_status(runs) -> int:
 
 def configure(p) -> None:
     p.add_argument("paths", nargs="*", metavar="PATH",
-                   help="case files or folders (default: casebook/); folders are searched recursively")
+                   help="case files or folders, searched recursively; a name that is no local path may "
+                        "name a bundled shelf or case (demo, published/suh_tse_2011.toml); default: the "
+                        "bundled casebook")
     p.add_argument("--json", action="store_true", help="machine-readable output on stdout")
+    p.add_argument("--list", action="store_true",
+                   help="name each case file with its title instead of running it (the names that "
+                        "check, report and bundle accept for bundled cases)")
 
 
 def run(args) -> int:
-    files = case_files(args.paths or ["casebook"])
+    files = case_files([resolve_folder(p) for p in args.paths] or [default_casebook()])
+    if args.list:
+        print("\n".join(listing_lines(files)))
+        return EXIT_OK
     runs = [run_case(f, args.solver, args.timeout, args.cross_check, getattr(args, "budget", None))
             for f in files]
     for r in runs:
@@ -133,9 +142,10 @@ HEADER = ("case", "claims", "proved", "refuted", "unknown", "mismatches", "time"
 
 
 def _row(r: CaseRun) -> tuple:
+    name = bundled_name(r.path) or r.path   # a bundled case by the name check and report accept
     if r.error:
-        return (r.path, "-", "-", "-", "-", "ERROR", f"{r.seconds:.2f} s")
-    return (r.path, len(r.results), r.count("proved"), r.count("refuted"), r.count("unknown"),
+        return (name, "-", "-", "-", "-", "ERROR", f"{r.seconds:.2f} s")
+    return (name, len(r.results), r.count("proved"), r.count("refuted"), r.count("unknown"),
             len(r.mismatches), f"{r.seconds:.2f} s")
 
 
@@ -165,7 +175,10 @@ def mismatch_lines(runs) -> list[str]:
 
 
 def text_lines(runs, args) -> list[str]:
-    lines = [f"Casebook: {len(runs)} case files", vt.solver_line(args.solver, args.timeout, args.cross_check), ""]
+    lines = [f"Casebook: {len(runs)} case files"]
+    if any(bundled_name(r.path) for r in runs):
+        lines.append(f"Bundled cases from {shown(casebook_root())}")
+    lines += [vt.solver_line(args.solver, args.timeout, args.cross_check), ""]
     lines += table_lines([HEADER] + [_row(r) for r in runs] + [_total_row(runs)])
     wrong = mismatch_lines(runs)
     if wrong:
@@ -178,6 +191,21 @@ def text_lines(runs, args) -> list[str]:
     lines.append("Every verdict as declared." if not n_wrong else
                  f"{n_wrong} verdict(s) differ from the declared ones.")
     return lines
+
+
+def listing_lines(files) -> list[str]:
+    """One line per case file: the name to type (relative to the bundled casebook when it is one of
+    its files, else the path) and its title; a file whose TOML does not read says why."""
+    rows = []
+    for f in files:
+        name = bundled_name(f) or str(f)
+        try:
+            title = read_toml(str(f))[1].get("title", "")
+        except GdofError as err:
+            title = f"(does not load: {err})"
+        rows.append((name, title if isinstance(title, str) else ""))
+    width = max(len(n) for n, _ in rows)
+    return [f"{n.ljust(width)}  {t}".rstrip() for n, t in rows]
 
 
 def run_json(r: CaseRun) -> dict:

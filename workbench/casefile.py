@@ -13,9 +13,11 @@ A case file is TOML in a layout of our own:
     [rates], [region.NAME]   rate regions and their claims (workbench/rate_case.py)
 
 A bound may be given regime by regime, as `hk = "1 - alpha if alpha <= 1/2; alpha if alpha > 1/2"` or
-`hk = { regimes = [["1 - alpha", "alpha <= 1/2"], ...] }`.  Such a name stays a placeholder until a
-claim is built: when the regimes form one continuous function it is replaced by its verified min/max
-form (verifier.claims.piecewise); otherwise the claim is split into one sub-claim per regime.  Either way each
+`hk = { regimes = [["1 - alpha", "alpha <= 1/2"], ...] }`, or in LaTeX as a `cases` environment
+(`'\\begin{cases} 1-\\alpha & \\alpha \\le \\frac12 \\\\ \\alpha & \\alpha > \\frac12 \\end{cases}'`, read
+exactly like the text form).  Such a name stays a placeholder until a claim is built: when the
+regimes form one continuous function it is replaced by its verified min/max form
+(verifier.claims.piecewise); otherwise the claim is split into one sub-claim per regime.  Either way each
 claim checks that the regimes cover its region (workbench.expansion).
 
 Every error names the file, the key and the position (file line and column when the value can be
@@ -41,7 +43,7 @@ from verifier.core.errors import CaseFileError, InputError, ParseError, UnknownN
 from verifier.expressions.expr import const, max_, min_, param, params, substitute, Expr
 from verifier.expressions.region import Region
 from verifier.geometry.lp import feasible
-from verifier.text.latex_in import parse_latex_expr, parse_latex_region
+from verifier.text.latex_in import parse_latex_expr, parse_latex_piecewise, parse_latex_region
 from verifier.text.lexer import MAX_LITERAL_DIGITS
 from verifier.text.parse import parse_expr, parse_piecewise, parse_region
 
@@ -394,7 +396,7 @@ def _bounds(rd: _Reader, table: dict, kind: str, case: Case, solver, timeout, bu
     for name, value in table.items():
         key = f"{kind}.{name}"
         _check_new_name(rd, key, name, case)
-        if isinstance(value, dict) or (isinstance(value, str) and re.search(r"\bif\b", value)):
+        if versions.is_regime_wise(value):
             case.piecewise[name] = _regimes(rd, key, value, case, solver, timeout, budget)
             target[name] = param(name)
         else:
@@ -444,8 +446,9 @@ def _pieces(rd: _Reader, key: str, value, case: Case) -> list[Piece]:
     names = list(case.parameters)
     explain = _explain_bound(case)
     if isinstance(value, str):
+        read = parse_latex_piecewise if "\\" in value else parse_piecewise   # LaTeX: `cases`
         try:
-            return [Piece(e, r) for e, r in parse_piecewise(value, names).pieces]
+            return [Piece(e, r) for e, r in read(value, names).pieces]
         except InputError as err:
             raise rd.fail(key, explained(err, explain), value) from None
     rd.keys(value, REGIME_KEYS, [(n, None) for n in key.split(".")], "a regime-wise bound")

@@ -5,6 +5,7 @@ from __future__ import annotations
 from verifier.core.errors import InputError
 
 from . import verdict_text as vt
+from .bundled import CASE_HELP, resolve_case
 from .casefile import load_case
 from .decide import decide
 from .exit_codes import exit_code
@@ -12,10 +13,10 @@ from verifier.core.verdicts import tally, tally_sentence
 
 
 def configure(p) -> None:
-    p.add_argument("case", help="a case file (TOML)")
+    p.add_argument("case", help=CASE_HELP)
     p.add_argument("--json", action="store_true", help="machine-readable output on stdout")
     p.add_argument("--claim", action="append", default=[], metavar="NAME",
-                   help="check only the named claim (repeatable)")
+                   help="check only the named claim, or the one claim whose name starts so (repeatable)")
 
 
 def select(case, names):
@@ -39,6 +40,7 @@ def select(case, names):
 
 
 def run(args) -> int:
+    args.case = resolve_case(args.case)   # a local file, else a bundled case of that name
     case = load_case(args.case, args.solver, args.timeout, getattr(args, "budget", None))
     outcomes = [decide(cc, args.solver, args.timeout, args.cross_check, "smt", getattr(args, "budget", None))
                 for cc in select(case, args.claim)]

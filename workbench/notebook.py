@@ -8,25 +8,23 @@ a notebook gets rich output by asking for it:
     show(decide(case_claim))            # a workbench.decide.Outcome (claims of case files)
     show(run_case("casebook/demo/cache_downlink_manuscript.toml"))   # a whole case (workbench.casebook_cmd)
 
-Every number is printed as an exact fraction, as everywhere else in the tool.  Expressions use
-verifier.text.latex_out when it is present and otherwise the plain-text form set in math mode.
+Every number is printed as an exact fraction, as everywhere else in the tool.  LaTeX comes from
+verifier.text.latex_out (expressions) and verifier.report.latex_math (claims), the report's dialect.
 """
 
 from __future__ import annotations
 
-import re
-from fractions import Fraction
 from html import escape
 
 from verifier.expressions.expr import Expr, to_text
 from verifier.report.build import Report
 from verifier.report.latex import name_latex, number_latex
+from verifier.report.latex_math import claim_math
 from verifier.text.latex_out import expr_to_latex
 
 from . import verdict_text as vt
 
 COLOURS = {"proved": "#1a7f37", "refuted": "#cf222e", "unknown": "#9a6700"}
-LATEX_REL = {"==": "=", "<=": r"\le", ">=": r"\ge", "<": "<", ">": ">"}
 
 
 class Display:
@@ -51,7 +49,7 @@ class Display:
 
     def _repr_latex_(self) -> str | None:
         if isinstance(self.item, Expr):
-            return f"${expr_latex(self.item)}$"
+            return f"${expr_to_latex(self.item)}$"
         if isinstance(self.item, Report):
             return None
         return "$$" + r" \\ ".join(_latex(x) for x in _items(self.item)) + "$$"
@@ -131,50 +129,10 @@ def _cex_table(v) -> str:
 # LaTeX (math mode only, so the same string works in MathJax and in a real LaTeX document)
 # ---------------------------------------------------------------------------------------------
 
-_TOKEN = re.compile(r"[A-Za-z_][A-Za-z0-9_]*'?|\d+/\d+|<=|>=|==|\^\+|[<>*]")
-
-
-def math_text(text: str) -> str:
-    """The tool's plain-text syntax (expressions, regions) turned into LaTeX math, token by token."""
-    def token(m):
-        t = m.group()
-        if t in ("min", "max"):
-            return f"\\{t}"
-        if t in ("or", "and"):
-            return rf"\ \text{{{t}}}\ "
-        if "/" in t:
-            num, den = t.split("/")
-            return number_latex(Fraction(int(num), int(den)))
-        return {"<=": r"\le ", ">=": r"\ge ", "==": "=", "^+": "^{+}", "*": " ", "<": "<", ">": ">"}.get(
-            t, None) or name_latex(t)
-    return _TOKEN.sub(token, text)
-
-
-def expr_latex(e) -> str:
-    """An expression in the tool's one LaTeX dialect (verifier.text.latex_out)."""
-    return expr_to_latex(e)
-
-
-def _side_latex(side) -> str:
-    return rf"\mathrm{{{side.label}}}" if side.label in ("inner", "outer") else expr_latex(side.expr)
-
-
 def claim_latex(claim) -> str:
-    lhs = _side_latex(claim.lhs)
-    if claim.kind == "relation":
-        body = f"{lhs} {LATEX_REL[claim.rel]} {_side_latex(claim.rhs)}"
-    elif claim.kind == "within":
-        body = rf"\left|{lhs} - {_side_latex(claim.rhs)}\right| \le {number_latex(claim.gap)}"
-    elif claim.kind == "monotone":
-        trend = "non-decreasing" if claim.increasing else "non-increasing"
-        body = rf"{lhs}\ \text{{{trend} in }} {name_latex(claim.param)}"
-    elif claim.kind == "reduces-to":
-        fixed = ", ".join([f"{name_latex(n)} = {number_latex(v)}" for n, v in claim.values] +
-                          [f"{name_latex(n)} = {expr_latex(e)}" for n, e in claim.subst])
-        body = rf"\left.{lhs}\right|_{{{fixed}}} = {_side_latex(claim.rhs)}"
-    else:
-        body = rf"{lhs}\ \text{{symmetric in }} {name_latex(claim.swap[0])}, {name_latex(claim.swap[1])}"
-    return body + rf"\quad \text{{where }} {math_text(claim.region.text())}"
+    """A claim as math, in the report's dialect (verifier.report.latex_math.claim_math), so a notebook
+    and a LaTeX report set the same claim the same way."""
+    return claim_math(claim)
 
 
 def _latex(x) -> str:

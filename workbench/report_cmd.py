@@ -12,6 +12,7 @@ import sys
 import tempfile
 from pathlib import Path
 
+from verifier.claims.kinds import Claim
 from verifier.report.build import ClaimEntry, Report, build_report, claim_report
 from verifier.report.json_out import render_json
 from verifier.report.latex import render_latex
@@ -19,6 +20,7 @@ from verifier.report.markdown import render_markdown
 from verifier.report.text import render_text
 
 from . import verdict_text as vt
+from .bundled import CASE_HELP, resolve_case
 from .casefile import load_case
 from .check_cmd import select
 from .decide import decide, uncovered_note
@@ -28,12 +30,12 @@ RENDERERS = {"text": render_text, "markdown": render_markdown, "latex": render_l
 
 
 def configure(p) -> None:
-    p.add_argument("case", help="a case file (TOML)")
+    p.add_argument("case", help=CASE_HELP)
     p.add_argument("--format", choices=tuple(RENDERERS), default="text", help="output format (default text)")
     p.add_argument("--json", action="store_const", const="json", dest="format",
                    help="the same as --format json (exact numbers as strings)")
     p.add_argument("--claim", action="append", default=[], metavar="NAME",
-                   help="report only the named claim (repeatable)")
+                   help="report only the named claim, or the one claim whose name starts so (repeatable)")
     p.add_argument("--workers", type=int, default=1, help="processes for the region-wise prover (default 1)")
     p.add_argument("--out", metavar="FILE", help="write to FILE (atomically) instead of stdout")
 
@@ -70,7 +72,8 @@ def case_report(case, case_claims, solver="z3", timeout=30.0, cross_check=False,
                                   notes, tuple(outcome.obligations),
                                   once_per_case(shown, cc.claim, outcome.rate_regimes),
                                   cc.claim if outcome.rate_witness is not None else None,
-                                  outcome.rate_witness))
+                                  outcome.rate_witness,
+                                  cc.claim if isinstance(cc.claim, Claim) else None))
     if progress:
         sys.stderr.write("\r" + " " * 80 + "\r")
     return build_report(entries, case.title, case.source, "z3 and cvc5" if cross_check else solver,
@@ -91,6 +94,7 @@ def write_atomic(path: str | Path, text: str) -> None:
 
 
 def run(args) -> int:
+    args.case = resolve_case(args.case)   # a local file, else a bundled case of that name
     from .output_target import check_output_file, write_error
     if args.out is not None:   # refuse a bad --out before the proof, not after it
         check_output_file(args.out, keep=[args.case])

@@ -55,5 +55,13 @@ def combine(kind: str, exprs) -> Expr:
     return (min_ if kind == "outer" else max_)(*exprs)
 
 
+_CASES = re.compile(r"\\begin\s*\{\s*d?cases\s*\}")
+
+
 def is_regime_wise(value) -> bool:
-    return isinstance(value, dict) or (isinstance(value, str) and re.search(r"\bif\b", value) is not None)
+    """Is this bound value given regime by regime: a `regimes` table, a text with `if`, or LaTeX with a
+    `cases` environment?  (One test, so [outer], [inner] and versions agree on what a value is.)"""
+    if isinstance(value, dict):
+        return True
+    return isinstance(value, str) and (re.search(r"\bif\b", value) is not None or
+                                       _CASES.search(value) is not None)

@@ -9,5 +9,6 @@ __all__, __getattr__, __dir__ = lazy_names(__name__, {
     "text": ("render_text",),
     "markdown": ("render_markdown", "render_html"),
     "latex": ("render_latex", "latex_document"),
+    "latex_math": ("claim_math", "region_math", "caption_math"),
     "json_out": ("render_json",),
 })

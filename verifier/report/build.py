@@ -88,6 +88,12 @@ class ClaimReport:
     checked: bool | None = None    # certificates and coverage re-verified by the standalone checker
     proof: RegimeProof | None = field(default=None, compare=False, repr=False)  # for certificates; not serialised
     optimality: object = None      # verifier.regimes.optimality.OptimalityRegion (comparison claims) or None
+    counterexample_regimes: tuple[tuple[int, ...], ...] = ()   # per counterexample: regimes holding it
+
+    def regimes_of(self, k: int) -> tuple[RegimeRow, ...]:
+        """The regime rows that hold the k-th counterexample (see _regimes_holding)."""
+        wanted = self.counterexample_regimes[k] if k < len(self.counterexample_regimes) else ()
+        return tuple(r for r in self.regimes if r.index in wanted)
 
     def to_sympy(self, side: int = 0):
         """One side as a sympy Piecewise over the regimes (for notebooks and further algebra)."""
@@ -127,6 +133,7 @@ class ClaimEntry:
     regions: tuple = ()   # verifier.rates.regimes RegionRegimes / RegionNotShown of a region claim
     rate_claim: object = field(default=None, compare=False, repr=False)     # verifier.rates RateClaim
     rate_witness: object = field(default=None, compare=False, repr=False)   # its RateWitness, if any
+    claim: Claim | None = field(default=None, compare=False, repr=False)  # the claim as stated (LaTeX sets it as math)
 
 
 @dataclass(frozen=True)
@@ -159,19 +166,36 @@ def _regime_row(regime, labels: Sequence[str]) -> RegimeRow:
                      regime.status, regime.certified, regime.detail)
 
 
+def _regimes_holding(regimes: Sequence[RegimeRow], point: Mapping[str, Fraction]) -> tuple[int, ...]:
+    """Numbers of the regimes whose pieces contain `point`, exactly: one for a point inside a regime,
+    several on a boundary that regimes share, none when the point lies in no regime shown (a regime
+    that names a parameter the point lacks is not one that holds it).  Read off at build time so that
+    a counterexample can be matched with its row of the regime table without recomputing anything."""
+    hits = []
+    for r in regimes:
+        try:
+            if any(p.polyhedron.contains(point) for p in r.polytopes):
+                hits.append(r.index)
+        except KeyError:
+            continue
+    return tuple(hits)
+
+
 def claim_report(proof: RegimeProof, label: str = "", expect: str | None = None) -> ClaimReport:
     """The report of one RegimeProof (no solver calls; everything is read off the proof)."""
     c = proof.claim
     smt = proof.smt
+    regimes = tuple(_regime_row(r, proof.labels) for r in proof.regimes)
     return ClaimReport(
         claim=c, name=c.name, label=label, statement=c.text(), kind=c.kind, status=proof.status,
         method=proof.method, detail=proof.detail, names=proof.names, labels=proof.labels,
-        regimes=tuple(_regime_row(r, proof.labels) for r in proof.regimes),
+        regimes=regimes,
         thresholds=proof.thresholds, failure=proof.failure, counterexamples=proof.counterexamples,
         parts=proof.parts, gaps=proof.gaps, smt_solver=smt.solver if smt else "",
         smt_status=smt.status if smt else "", agree=proof.agree, certified=proof.certified,
         cells=proof.cells, seconds=float(proof.timing.get("total", 0.0)), expect=expect,
-        checked=proof.checked, proof=proof, optimality=proof.optimality)
+        checked=proof.checked, proof=proof, optimality=proof.optimality,
+        counterexample_regimes=tuple(_regimes_holding(regimes, x.point) for x in proof.counterexamples))
 
 
 def build_report(proofs, title: str = "", source: str = "", solver: str = "z3",
@@ -187,7 +211,7 @@ def build_report(proofs, title: str = "", source: str = "", solver: str = "z3",
         elif isinstance(item, RegimeProof):
             item = claim_report(item)
         if isinstance(item, ClaimReport):
-            item = ClaimEntry(item.name, item.statement, item.status, (item,), item.expect)
+            item = ClaimEntry(item.name, item.statement, item.status, (item,), item.expect, claim=item.claim)
         entries.append(item)
     if versions is None:
         from verifier.solvers.smt import versions as solver_versions

@@ -9,70 +9,18 @@ tool prints one LaTeX dialect.
 
 from __future__ import annotations
 
-from fractions import Fraction
-
-from verifier.expressions.expr import Affine, affine
-from verifier.expressions.region import Atom, Notation, constraint_text
+from verifier.expressions.expr import affine
+from verifier.expressions.region import Notation
 from verifier.report.build import ClaimReport, Report, num
-from verifier.text.latex_out import expr_to_latex, name_to_latex
+from verifier.report.latex_math import (LATEX_RELS, affine_latex, atom_latex, bound_math, caption_math,
+                                        claim_math, compared_side_math, condition_latex, equation_latex,
+                                        escape, label_math, name_latex, number_latex, side_math)
+from verifier.text.latex_out import expr_to_latex
 
-_SPECIALS = {"\\": r"\textbackslash{}", "&": r"\&", "%": r"\%", "$": r"\$", "#": r"\#", "_": r"\_",
-             "{": r"\{", "}": r"\}", "~": r"\textasciitilde{}", "^": r"\textasciicircum{}",
-             "<": r"\textless{}", ">": r"\textgreater{}", "|": r"\textbar{}"}
-
-
-def escape(text: str) -> str:
-    """Plain text made safe for LaTeX text mode."""
-    return "".join(_SPECIALS.get(ch, ch) for ch in text)
-
-
-def name_latex(name: str) -> str:
-    """alpha -> \\alpha, alpha_1 / alpha1 -> \\alpha_{1}, gamma' -> \\gamma', snr -> \\mathrm{snr}
-    (verifier.text.latex_out: one LaTeX dialect for the whole tool)."""
-    return name_to_latex(name)
-
-
-def number_latex(q: Fraction) -> str:
-    q = Fraction(q)
-    if q.denominator == 1:
-        return str(q.numerator)
-    sign = "-" if q < 0 else ""
-    return f"{sign}\\tfrac{{{abs(q.numerator)}}}{{{q.denominator}}}"
-
-
-def affine_latex(a: Affine) -> str:
-    """An affine form in the order papers write it: 1 - \\tfrac{1}{2}\\alpha."""
-    return expr_to_latex(a)
-
-
-def atom_latex(atom: Atom) -> str:
-    """A constraint with positive coefficients on each side, shorter side on the left."""
-    return _sides_latex(atom.form, (">", "<") if atom.strict else (r"\ge", r"\le"))
-
-
-def equation_latex(form: Affine) -> str:
-    """The hyperplane form = 0 written as papers do: \alpha = \tfrac{1}{2}."""
-    return _sides_latex(form, ("=", "="))
-
-
-def _sides_latex(f: Affine, rels) -> str:
-    left = affine([(n, c) for n, c in f.coeffs if c > 0], max(f.const, 0))
-    right = affine([(n, -c) for n, c in f.coeffs if c < 0], max(-f.const, 0))
-    size = lambda a: len(a.coeffs) + (a.const != 0)  # noqa: E731
-    if (not left.coeffs and right.coeffs) or (right.coeffs and size(right) < size(left)):
-        return f"{affine_latex(right)} {rels[1]} {affine_latex(left)}"
-    return f"{affine_latex(left)} {rels[0]} {affine_latex(right)}"
-
-
-LATEX_RELS = {"<": "<", "<=": r"\le", "==": "=", ">=": r"\ge", ">": ">"}
-
-
-def condition_latex(atoms) -> str:
-    """Constraints with one-parameter bounds chained: 1/2 <= alpha < 2/3 in LaTeX."""
-    notation = Notation(name=name_latex, number=number_latex, rel=LATEX_RELS.get, atom=atom_latex,
-                        joiner=",\\ ", everywhere=r"\text{everywhere}", affine=affine_latex)
-    return constraint_text(atoms, notation, reorder=True)
-
+__all__ = ["render_latex", "latex_document", "referee_sentence", "claim_latex", "section_latex",
+           "cases_latex", "counterexample_table", "escape", "name_latex", "number_latex",
+           "affine_latex", "atom_latex", "bound_math", "caption_math", "claim_math", "compared_side_math",
+           "label_math", "side_math"]
 
 def regime_condition(row) -> str:
     conds = [condition_latex(p.polyhedron.atoms) for p in row.polytopes]
@@ -113,7 +61,7 @@ def _summary(section: ClaimReport) -> list[str]:
     if sentence:
         out.append(sentence)
     if section.redundant:
-        out.append("Redundant bounds: " + ", ".join(f"\\texttt{{{escape(p.name)}}}" for p in section.redundant) + ".")
+        out.append("Redundant bounds: " + ", ".join(f"${bound_math(p.name)}$" for p in section.redundant) + ".")
     for g in section.gaps:
         if g.value is not None:
             out.append(f"$\\max(\\mathrm{{{g.direction.replace(' ', '')}}}) = {number_latex(g.value)}$"
@@ -160,22 +108,25 @@ def referee_sentence(entry) -> str | None:
             cex = section.counterexamples[0]
             at = ", ".join(f"${name_latex(k)} = {number_latex(v)}$" for k, v in cex.point.items())
             left, right = section.labels[0], section.labels[1]
-            say = [SIDE_WORDS.get(left, f"the left side, {_label_math(left)}, is"),
-                   SIDE_WORDS.get(right, f"the right side, {_label_math(right)}, is")]
+            say = [SIDE_WORDS.get(left, f"the left side, ${compared_side_math(section.claim, 0)}$, is"),
+                   SIDE_WORDS.get(right, f"the right side, ${compared_side_math(section.claim, 1)}$, is")]
             return (f"At {at} {say[0]} ${number_latex(cex.lhs_value)}$ while {say[1]} "
                     f"${number_latex(cex.rhs_value)}$.")
     return None
 
 
-def _label_math(label: str) -> str:
-    return f"\\texttt{{{escape(label)}}}"
+def _statement(entry) -> str:
+    """The claim as inline math when the entry carries its Claim (or has one part), else its words."""
+    claim = entry.claim if entry.claim is not None else \
+        (entry.sections[0].claim if len(entry.sections) == 1 else None)
+    return f"${claim_math(claim)}$" if claim is not None else escape(entry.statement)
 
 
 def claim_latex(entry) -> str:
     """A claim: its verdict, notes, then each part (a claim decided in parts says which is which)."""
     declared = f" (declared {entry.expect})" if entry.expect and entry.expect != entry.status else ""
     parts = [f"\\subsection*{{{escape(entry.name or entry.statement)}}}",
-             f"Verdict: \\textbf{{{entry.status}}}{escape(declared)}. Claim: \\texttt{{{escape(entry.statement)}}}\\par"]
+             f"Verdict: \\textbf{{{entry.status}}}{escape(declared)}. Claim: {_statement(entry)}\\par"]
     parts += [escape(n) + "\\par" for n in entry.notes]
     parts += [region_latex(item) for item in entry.regions]
     sentence = referee_sentence(entry)
@@ -185,7 +136,8 @@ def claim_latex(entry) -> str:
     for k, section in enumerate(entry.sections, 1):
         if len(entry.sections) > 1 or section.label:
             parts.append(f"\\paragraph{{Part {k} of {len(entry.sections)}}} "
-                         f"{escape(section.label or 'whole region')}: \\textbf{{{section.status}}}.")
+                         f"{label_math(section.label) if section.label else 'whole region'}: "
+                         f"\\textbf{{{section.status}}}.")
         parts.append(section_latex(section))
     return "\n".join(parts)
 
@@ -225,7 +177,7 @@ def region_latex(item) -> str:
 def section_latex(section: ClaimReport) -> str:
     parts = []
     for side, label in enumerate(section.labels):
-        parts.append(f"{'Left' if side == 0 else 'Right'} side, \\texttt{{{escape(label)}}}:")
+        parts.append(f"{'Left' if side == 0 else 'Right'} side, ${compared_side_math(section.claim, side)}$:")
         parts.append(cases_latex(section, side))
     parts += [p + "\\par" for p in _summary(section)]
     if section.counterexamples:
@@ -247,12 +199,13 @@ def render_latex(report: Report) -> str:
 
 
 def latex_document(fragment_file: str = "report.tex", figures=()) -> str:
-    """A standalone document that \\input's the fragment and includes the given figure files
+    """A standalone document that \\input's the fragment and includes the given figure files, each a
+    (file, caption) pair whose caption is LaTeX already (latex_math.caption_math; escape plain text)
     (a \\clearpage after every four figures keeps LaTeX's float queue short)."""
     figs = []
     for k, (f, cap) in enumerate(figures, 1):
         figs.append(f"\\begin{{figure}}[htbp]\\centering\\includegraphics[width=3.5in]{{{f}}}"
-                    f"\\caption{{{escape(cap)}}}\\end{{figure}}")
+                    f"\\caption{{{cap}}}\\end{{figure}}")
         if k % 4 == 0:
             figs.append(r"\clearpage")
     return "\n".join([r"\documentclass[11pt]{article}", r"\usepackage[T1]{fontenc}",

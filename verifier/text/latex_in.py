@@ -10,8 +10,10 @@ and leniently `a_12` -> a_12), `\\mathrm{snr}` / `\\operatorname{max}`, `+ - \\c
 `\\frac \\tfrac \\dfrac` (also `\\frac12`), `\\min \\max`, `|x|`, `\\lvert x \\rvert`, `(x)^+`, `(x)^{+}`,
 sizing (`\\left \\right \\big \\Bigl ...`, `\\left.`), spacing (`\\, \\; \\! \\quad ~`, `&`, `\\\\`),
 relations `< > = \\le \\leq \\leqslant \\ge \\geq \\geqslant`, connectives `,`, `\\text{and}`, `\\text{or}`,
-`\\land`, `\\lor`, `\\wedge`, `\\vee`, and `$` delimiters.  Any other macro is an UnknownNameError
-naming it, with its column in the fragment.
+`\\land`, `\\lor`, `\\wedge`, `\\vee`, paired `$` delimiters, and a `cases` / `dcases` environment as
+a whole regime-wise value (rows `value & condition`, also with `\\text{if }` or `\\text{for }`; the rules
+are in verifier.text.latex_cases).  Any other macro is an UnknownNameError naming it, with its column
+in the fragment.
 """
 
 from __future__ import annotations
@@ -21,6 +23,7 @@ from typing import Iterable
 from verifier.core.errors import ParseError, UnknownNameError
 from verifier.expressions.expr import Expr
 from verifier.expressions.region import Region
+from verifier.text.latex_cases import CasesTracker, blank_dollars
 from verifier.text.lexer import GREEK, UNICODE_OPS, UNICODE_RELS, Token, check_length, read_number
 from verifier.text.parse import Parser, Piecewise
 
@@ -48,7 +51,6 @@ PROSE_MACROS = {"text", "textrm", "mbox", "textnormal"}           # only connect
 NAME_MACROS = {"mathrm", "operatorname", "mathit"}                 # names and function names
 TEXT_MACROS = PROSE_MACROS | NAME_MACROS
 TEXT_WORDS = {"and", "or", "if", "for", "otherwise", "everywhere", "true", "false", "nowhere"}
-ENVIRONMENTS = {"cases", "dcases"}
 FUNCTION_WORDS = {"min", "max"}
 _ONE = {"+": ("op", "+"), "-": ("op", "-"), "*": ("op", "*"), "/": ("op", "/"), "^": ("op", "^"),
         ",": ("op", ","), ";": ("op", ";"), "|": ("op", "|"), "(": ("open", "("), ")": ("close", ")"),
@@ -72,12 +74,12 @@ class LatexLexer:
     def __init__(self, source: str):
         check_length(source)
         self.source = source
-        self.text = source.replace("$", " ")  # same length, so columns stay those of the fragment
+        self.text = blank_dollars(source)  # same length, so columns stay those of the fragment
         self.i = 0
         self.tokens: list[Token] = []
         self.braces = 0  # depth of grouping braces
         self.fracs: list[_FracArgs] = []
-        self.in_cases = False  # inside \begin{cases}: '&' means 'if' and '\\' ends a piece
+        self.cases = CasesTracker(source, self.tokens)  # inside: '&' means 'if' and '\\' ends a piece
 
     def fail(self, message: str, position: int, cls=ParseError):
         raise cls(message, self.source, position)
@@ -89,11 +91,17 @@ class LatexLexer:
             return  # `& \text{if }` in a cases row is one 'if'
         self.tokens.append(Token(kind, value, pos, end))
 
-    def row_mark(self, kind: str, value: str, pos: int, end: int) -> None:
+    def row_mark(self, ch: str, pos: int, end: int) -> None:
         """'&' (-> if) or '\\' (-> ;) in a cases environment; a comma just before it is punctuation."""
         if self.tokens and self.tokens[-1].kind == "op" and self.tokens[-1].value == ",":
             self.tokens.pop()
-        self.emit(kind, value, pos, end)
+        if ch == "&":
+            self.cases.ampersand(pos)
+            self.emit("kw", "if", pos, end)
+        else:
+            self.cases.end_row(pos)
+            self.emit("op", ";", pos, end)
+            self.cases.next_row()
 
     def run(self) -> list[Token]:
         while self.skip_space() < len(self.text):
@@ -101,6 +109,8 @@ class LatexLexer:
                 self.frac_argument()
             else:
                 self.token()
+            self.cases.check()
+        self.cases.finish()
         if self.fracs:
             self.fail("\\frac needs two arguments", len(self.text))
         self.emit("end", None, len(self.text), len(self.text))
@@ -109,9 +119,9 @@ class LatexLexer:
     def skip_space(self) -> int:
         t = self.text
         while self.i < len(t):
-            if t[self.i].isspace() or t[self.i] == "~" or (t[self.i] == "&" and not self.in_cases):
+            if t[self.i].isspace() or t[self.i] == "~" or (t[self.i] == "&" and not self.cases.inside):
                 self.i += 1
-            elif t.startswith("\\\\", self.i) and not self.in_cases:
+            elif t.startswith("\\\\", self.i) and not self.cases.inside:
                 self.i += 2
             else:
                 break
@@ -158,9 +168,9 @@ class LatexLexer:
     def token(self) -> None:
         t, start = self.text, self.i
         ch = t[start]
-        if self.in_cases and (ch == "&" or t.startswith("\\\\", start)):
+        if self.cases.inside and (ch == "&" or t.startswith("\\\\", start)):
             self.i += 1 if ch == "&" else 2
-            self.row_mark(*(("kw", "if") if ch == "&" else ("op", ";")), start, self.i)
+            self.row_mark(ch, start, self.i)
         elif ch == "\\":
             self.macro()
         elif ch in "0123456789" or (ch == "." and t[start + 1:start + 2].isdigit()):
@@ -226,12 +236,11 @@ class LatexLexer:
             self.text_macro(word, start)
         elif word in ("begin", "end"):
             env = self.braced_word(word, start)
-            if env not in ENVIRONMENTS:
-                self.fail(f"unsupported environment '{env}' (only cases)", start)
-            if word == "end" and self.tokens and self.tokens[-1].kind in ("op", "bad") and \
-                    self.tokens[-1].value in (",", "."):  # sentence punctuation before \end{cases}
-                self.tokens.pop()
-            self.in_cases = word == "begin"
+            if word == "begin":
+                self.cases.begin(env, start)
+            else:
+                self.cases.end(env, start)
+                self.i = self.cases.after(self.text, self.i)
         else:
             self.fail(f"unknown macro '\\{word}'", start, UnknownNameError)
 
@@ -330,7 +339,12 @@ def latex_tokens(text: str) -> list[Token]:
 
 
 def _run(text: str, names, what: str):
-    return Parser(latex_tokens(text), text, names).run(what)
+    lexer = LatexLexer(text)
+    tokens = lexer.run()
+    if what != "piecewise" and lexer.cases.begun_at is not None:
+        raise ParseError("a cases environment defines a value regime by regime, which cannot stand here",
+                         text, lexer.cases.begun_at)
+    return Parser(tokens, text, names).run(what)
 
 
 def parse_latex_expr(text: str, names: Iterable[str] | None = None) -> Expr:

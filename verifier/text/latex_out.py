@@ -3,7 +3,8 @@
 Why its own module: papers and referee reports want `\\min\\{2\\alpha, \\frac{\\gamma}{2}\\}`, not the
 plain-text form.  The output stays inside the subset that verifier.text.latex_in reads, so
 `parse_latex_expr(expr_to_latex(e)) == e` for every expression whose parameter names are identifiers
-(the tests check it); `piecewise_to_latex` (a `cases` environment) is for display only.
+(the tests check it); `piecewise_to_latex` (a `cases` environment) reads back with
+`parse_latex_piecewise` too.
 """
 
 from __future__ import annotations
@@ -101,6 +102,6 @@ def region_to_latex(region: Region) -> str:
 
 
 def piecewise_to_latex(pw) -> str:
-    """A `cases` environment for a verifier.text.parse.Piecewise (display only)."""
+    """A `cases` environment for a verifier.text.parse.Piecewise (parse_latex_piecewise reads it back)."""
     rows = " \\\\ ".join(f"{expr_to_latex(e)} & \\text{{if }} {region_to_latex(r)}" for e, r in pw.pieces)
     return f"\\begin{{cases}} {rows} \\end{{cases}}"
