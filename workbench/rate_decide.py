@@ -18,10 +18,14 @@ from .outcome import Outcome, Part
 def decide_rates(case_claim, solver="z3", timeout=30.0, cross_check=False, method="smt", budget=None,
                  workers=1, progress=None) -> Outcome:
     clock = Budget.of(None, timeout, budget)
-    def by_regimes(claim, b):
+    def by_regimes(claim, b, exact_sets=True):
         from verifier.regimes.proof import prove_by_regimes
         return prove_by_regimes(claim, solver, b.query_timeout, cross_check, workers,
-                                progress(claim.name) if progress else None, budget=b)
+                                progress(claim.name) if progress else None, budget=b,
+                                exact_sets=exact_sets)
+
+    def for_facets(claim, b):      # the facet listing reads failure sets only
+        return by_regimes(claim, b, exact_sets=False)
     scalar_decider = by_regimes if method == "regimes" else None
     verdict = decide_claim(case_claim.claim, solver, timeout, cross_check, clock, scalar_decider)
     out = Outcome(case_claim, verdict.status, obligations=verdict.obligations, seconds=clock.spent())
@@ -34,7 +38,7 @@ def decide_rates(case_claim, solver="z3", timeout=30.0, cross_check=False, metho
                       if ob.status != "proved" and ob.reason not in out.notes]
     out.rate_witness = verdict.witness
     if method == "regimes":          # the report also says where each inequality is a facet
-        out.notes += facet_notes(case_claim.claim, by_regimes, clock)
+        out.notes += facet_notes(case_claim.claim, for_facets, clock)
         from .rate_report import region_regimes_of
         out.rate_regimes = region_regimes_of(case_claim.claim, clock)
     return out

@@ -154,14 +154,17 @@ def _worker_setup(spec, tgts, options, index):
 def prove_by_regimes(claim: Claim, solver: str = "z3", timeout: float = 30.0, cross_check: bool = False,
                      workers: int = 1, progress: Callable[[str, int, int], None] | None = None,
                      box: Mapping[str, tuple] | None = None, smt: str = "claim",
-                     improve_witness: bool = True, budget: Budget | None = None) -> RegimeProof:
+                     improve_witness: bool = True, budget: Budget | None = None,
+                     exact_sets: bool = True) -> RegimeProof:
     """Decide `claim` regime by regime (see the module docstring).
 
     smt: 'claim' (the one-shot query as a second method, default), 'regimes' (also each cell
     separately), or 'none'.  box: {name: (lo, hi)} clips unbounded failure sets when locating the
     worst violation.  progress(stage, done, total) is called as cells are found and decided.
     budget: the claim's whole time (verifier.core.budget); the one-shot query may use a quarter of it, the
-    regions the rest; running out is reported in `detail` and never turns into 'proved'."""
+    regions the rest; running out is reported in `detail` and never turns into 'proved'.
+    exact_sets: compute the exact holds / fails sets of a comparison (verifier.regimes.optimality);
+    callers that read only the failure region skip them (they are the costly part of merging)."""
     budget = Budget.of(budget, timeout)
     clock = {"start": time.perf_counter()}
     spec = spec_of(claim)
@@ -186,7 +189,7 @@ def prove_by_regimes(claim: Claim, solver: str = "z3", timeout: float = 30.0, cr
         budget.check("regime grouping")
         clock["regimes"] = time.perf_counter()
         return _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, workers, budget,
-                         improve_witness, pool)
+                         improve_witness, pool, exact_sets)
     except OutOfBudget as exc:
         if pool is not None:
             pool.shutdown(wait=True, cancel_futures=True)
@@ -229,7 +232,7 @@ def _analyse(budget, notes, stage, default, work):
 
 
 def _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, workers, budget, improve_witness,
-              pool=None):
+              pool=None, exact_sets=True):
     notes: list[str] = []
     compare = spec.kind == "compare"
     status, method, detail = _regime_status(spec, regimes, pieces)
@@ -250,7 +253,8 @@ def _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, worke
         notes.append(f"counterexample ranking incomplete: {exc}")
         cexs = counterexamples(claim, spec, regimes, solver, budget, improve=False)
     optimal = _analyse(budget, notes, "optimality region", (None, ""),
-                       lambda: optimality_region(claim, spec, regimes, pieces, budget)) if compare else (None, "")
+                       lambda: optimality_region(claim, spec, regimes, pieces, budget)) \
+        if compare and exact_sets else (None, "")
     if optimal[1]:
         notes.append(optimal[1])
     clock["analysis"] = time.perf_counter()
