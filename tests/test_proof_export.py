@@ -105,7 +105,9 @@ def test_exported_proof_is_certified_by_the_standalone_checker(name, tmp_path):
     assert proof.status == "proved" and proof.certified
     data = exported(name)
     assert data["format"] == FORMAT and data["complete"], data["incomplete"]
-    assert len(data["cells"]) == sum(len(r.cells) for r in proof.regimes)
+    # one certified polyhedron per regime polytope or cell, never more than the cells
+    assert len(data["cells"]) == sum(len(r.certificates) for r in proof.regimes)
+    assert len(data["cells"]) <= sum(len(r.cells) for r in proof.regimes)
     assert len(data["coverage"]) == len(data["region"])
     got = run_checker(tmp_path, data)
     assert got.returncode == 0, got.stdout + got.stderr
@@ -395,3 +397,51 @@ def test_bundle_carries_certificates_and_the_checker(tmp_path, capsys):
                          capture_output=True, text=True, cwd=out, timeout=300)
     assert got.returncode == 0, got.stdout + got.stderr
     assert got.stdout.startswith("certified: outer <= 1") and "checked: min(1, " in got.stdout
+
+
+def _contained_leaves(data):
+    out = []
+    for tree in data["coverage"]:
+        stack = [tree]
+        while stack:
+            node = stack.pop()
+            if node["node"] == "split":
+                stack += [node["holds"], node["fails"]]
+            elif node["node"] == "cell" and node.get("farkas"):
+                out.append(node)
+    return out
+
+
+def test_merged_regimes_are_certified_once_and_cells_shown_inside_them():
+    """Cells of one regime whose union is convex share one certificate; the coverage tree shows
+    each part inside it by Farkas multipliers over the path (checked in the parametrized test)."""
+    for name in ("overlapping_union", "symmetric"):
+        proof, data = _proof(name), exported(name)
+        assert len(data["cells"]) < proof.cells
+        leaves = _contained_leaves(data)
+        assert leaves and all(any(f is not None for f in leaf["farkas"]) for leaf in leaves)
+        assert all(len(leaf["farkas"]) == len(data["cells"][leaf["cell"]]["atoms"]) for leaf in leaves)
+
+
+def test_changed_containment_multiplier_is_refused(tmp_path):
+    data = exported("symmetric")
+    leaf = _contained_leaves(data)[0]
+    proof = next(f for f in leaf["farkas"] if f is not None)
+    if proof["mult"]:
+        proof["mult"][0][1] = str(F(proof["mult"][0][1]) + F(1, 2))
+    else:
+        proof["const"] = str(F(proof["const"]) + 1)
+    assert_refused(tmp_path, data)
+
+
+def test_containment_claimed_without_proof_is_refused(tmp_path):
+    """A leaf may skip the proof of a cell's constraint only when that constraint is on its path."""
+    data = exported("symmetric")
+    leaf = _contained_leaves(data)[0]
+    k = next(k for k, f in enumerate(leaf["farkas"]) if f is not None)
+    leaf["farkas"][k] = None
+    assert_refused(tmp_path, data)
+    data = exported("symmetric")
+    leaf = _contained_leaves(data)[0]
+    leaf["farkas"].pop()
+    assert_refused(tmp_path, data)

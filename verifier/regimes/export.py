@@ -8,17 +8,22 @@ to accept a proved claim.  `export_proof` writes down everything that the standa
   compared expression trees (regime_spec.spec_of: for reduces-to the expressions and region with the
   fixed parameters substituted away, which is the space the cells live in);
 - the region as a list of polyhedra (the claim's region pieces, possibly overlapping);
-- every cell (its atoms) with its certificate (verifier.regimes.certificates: Piece proofs that each
-  expression equals one affine form on the cell, Farkas multipliers for each obligation);
-- per region piece k a COVERAGE TREE proving that the cells cover piece k: `split` nodes on an atom a
-  (children: path + [a] where a holds, path + [not a] where it fails), and leaves `cell` (a cell
-  whose atoms are all on the path), `empty` (Farkas multipliers proving '0 > 0' on the path's atoms,
-  i.e. that the path is empty) and `inside` (an earlier piece j < k whose atoms are all on the path).
+- every certified polyhedron (listed as `cells`: a regime polytope that holds several decomposition
+  cells, or a single cell) with its certificate (verifier.regimes.certificates: Piece proofs that
+  each expression equals one affine form there, Farkas multipliers for each obligation);
+- per region piece k a COVERAGE TREE proving that those polyhedra cover piece k: `split` nodes on an
+  atom a (children: path + [a] where a holds, path + [not a] where it fails), and leaves `cell` (a
+  certified polyhedron each of whose atoms is on the path or, listed in `farkas`, implied by the
+  path's atoms), `empty` (Farkas multipliers proving '0 > 0' on the path's atoms, i.e. that the
+  path is empty) and `inside` (an earlier piece j < k whose atoms are all on the path).
 
-The tree is rebuilt from the cells' atom sequences: every cell's atoms are its region piece's atoms
-followed by the atoms appended by lp_shape.difference (making pieces disjoint) and by regimes.cut,
-so grouping cells by the atom at each position recovers the splits; a side without cells is what
-difference dropped (empty, or inside an earlier piece), proved so here.
+The tree is rebuilt from the decomposition cells' atom sequences: every cell's atoms are its region
+piece's atoms followed by the atoms appended by lp_shape.difference (making pieces disjoint) and by
+regimes.cut, so grouping cells by the atom at each position recovers the splits; a side without
+cells is what difference dropped (empty, or inside an earlier piece), proved so here.  A subtree
+whose cells all lie in one certified regime polytope Q is closed as soon as its path implies Q's
+atoms (one LP per atom of Q not on the path): the union of its cells is the path's polyhedron, which
+then lies in Q, so the tree grows with the regimes, not the cells.
 
 A proof that is not fully certified (a refuted or unknown claim, a cell decided by SMT without a
 certificate, a monotone claim over several polyhedra) is exported anyway, marked incomplete with the
@@ -35,15 +40,14 @@ from typing import Sequence
 
 from verifier.expressions.expr import Affine, Expr, Max, Min, Sum, ZERO_AFFINE, format_number
 from verifier.expressions.region import Atom
-from verifier.geometry.farkas import Farkas, check_farkas
+from verifier.geometry.farkas import Farkas, check_farkas, farkas
 from verifier.geometry.lp import ONE, ZERO, rows_of, solve_standard
 from verifier.geometry.shape import difference
 from verifier.regimes.cell_proof import Bound, Piece
 from verifier.regimes.spec import spec_of
-from verifier.regimes.work import received_certificate
 
 FORMAT = "gdof-workbench-certificate"
-VERSION = 1
+VERSION = 2   # 2: cell leaves may prove containment (`farkas`); version 1 files read the same
 CAUTION = ("GDoF statements are asymptotic in SNR: a certificate proves the claim exactly as encoded "
            "here and nothing about rates at any finite SNR.")
 
@@ -128,11 +132,17 @@ def empty_certificate(atoms: Sequence[Atom]) -> Farkas | None:
 
 
 class _Coverage:
-    """Builds the coverage tree of each region piece from the cells' atom sequences."""
+    """Builds the coverage tree of each region piece from the cells' atom sequences.
 
-    def __init__(self, pieces: Sequence[tuple[Atom, ...]], cells: Sequence[tuple[Atom, ...]]):
+    `held[i]`: the index of the exported polyhedron that holds decomposition cell i; `own[i]`:
+    whether that polyhedron is the cell itself (its atoms are then all on the cell's path)."""
+
+    def __init__(self, pieces: Sequence[tuple[Atom, ...]], cells: Sequence[tuple[Atom, ...]],
+                 held: Sequence[int], own: Sequence[bool], exported: Sequence[tuple[Atom, ...]],
+                 names: Sequence[str]):
         self.pieces = [tuple(p) for p in pieces]
         self.cells = cells
+        self.held, self.own, self.exported, self.names = held, own, exported, tuple(names)
 
     def tree(self, k: int, members: list[int]) -> dict:
         root = self.pieces[k]
@@ -145,9 +155,12 @@ class _Coverage:
         if not members:
             return self._missing(path, k)
         d = len(path)
+        leaf = self._within(path, members)
+        if leaf is not None:
+            return leaf
         done = next((i for i in members if len(self.cells[i]) == d), None)
         if done is not None:
-            return {"node": "cell", "cell": done}
+            return {"node": "cell", "cell": self.held[done]}
         groups: dict[Atom, list[int]] = {}
         for i in members:
             groups.setdefault(self.cells[i][d], []).append(i)
@@ -156,6 +169,25 @@ class _Coverage:
             raise ExportError("cells do not split by one atom and its negation at position "
                               f"{d} of region piece {k}")
         return self._split(path, first, groups.get(first, []), groups.get(first.negated(), []), k)
+
+    def _within(self, path, members) -> dict | None:
+        """A `cell` leaf with containment multipliers when every member lies in one merged polytope
+        whose atoms the path implies; None otherwise (the caller splits further)."""
+        target = self.held[members[0]]
+        if self.own[members[0]] or any(self.held[i] != target for i in members):
+            return None
+        have, proofs = set(path), []
+        for a in self.exported[target]:
+            if a in have:
+                proofs.append(None)
+                continue
+            cert = farkas(a.form, path, self.names, a.strict)
+            if cert is None:
+                return None
+            proofs.append(farkas_data(cert))
+        if all(x is None for x in proofs):
+            return {"node": "cell", "cell": target}
+        return {"node": "cell", "cell": target, "farkas": proofs}
 
     def _split(self, path, a: Atom, yes: list[int], no: list[int], k: int) -> dict:
         return {"node": "split", "atom": atom_data(a), "holds": self._build(path + (a,), yes, k),
@@ -212,35 +244,42 @@ def export_proof(proof) -> dict:
     if spec.kind == "monotone" and len(spec.region.pieces) != 1:
         reasons.append(f"a monotone claim over {len(spec.region.pieces)} polyhedra: the slope argument "
                        "needs the region to be one (convex) polyhedron")
-    cells, atoms = [], []
+    cells, atoms, held, own, exported, origin_piece = [], [], [], [], [], []
     for regime in proof.regimes:
-        for cell in regime.cells:
-            verdict = cell.extra
-            cert = getattr(verdict, "certificate", None)
-            cert = received_certificate(cert, regime.exprs) if cert is not None else None
-            cell_atoms = tuple(cert.atoms) if cert is not None else tuple(cell.atoms)
-            atoms.append(cell_atoms)
-            cells.append({"regime": regime.index, "status": getattr(verdict, "status", "unknown"),
-                          "atoms": [atom_data(a) for a in cell_atoms],
-                          "certificate": certificate_data(cert) if cert is not None else None,
-                          "piece": cell.piece})
+        certs = regime.certificates
+        first = len(cells)
+        for cert in certs:
+            exported.append(tuple(cert.atoms))
+            cells.append({"regime": regime.index, "status": "proved",
+                          "atoms": [atom_data(a) for a in cert.atoms], "certificate": certificate_data(cert)})
+        cover = regime.cover or (None,) * len(regime.cells)
+        for cell, k in zip(regime.cells, cover):
+            atoms.append(tuple(cell.atoms))
+            origin_piece.append(cell.piece)
+            if k is None:
+                held.append(len(cells))
+                own.append(True)
+                exported.append(tuple(cell.atoms))
+                cells.append({"regime": regime.index, "status": getattr(cell.extra, "status", "unknown"),
+                              "atoms": [atom_data(a) for a in cell.atoms], "certificate": None})
+            else:
+                held.append(first + k)
+                own.append(exported[first + k] == tuple(cell.atoms))
     missing = sum(c["certificate"] is None for c in cells)
     if not cells:
         reasons.append("the proof has no cells")
     elif missing:
-        reasons.append(f"{missing} of {len(cells)} cells have no certificate (refuted, or decided by SMT)")
+        reasons.append(f"{missing} of {len(atoms)} cells have no certificate (refuted, or decided by SMT)")
     coverage = []
     try:
         origin = _origins(spec)
-        builder = _Coverage([p.atoms for p in spec.region.pieces], atoms)
+        builder = _Coverage([p.atoms for p in spec.region.pieces], atoms, held, own, exported, spec.names)
         for k in range(len(spec.region.pieces)):
-            members = [i for i, c in enumerate(cells) if origin[c["piece"]] == k]
+            members = [i for i in range(len(atoms)) if origin[origin_piece[i]] == k]
             coverage.append(builder.tree(k, members))
     except (ExportError, IndexError) as exc:
         reasons.append(f"coverage tree not built: {exc}")
         coverage = []
-    for c in cells:
-        del c["piece"]
     return {"format": FORMAT, "version": VERSION, "complete": not reasons, "incomplete": "; ".join(reasons),
             "claim": claim_data(proof, spec), "names": list(spec.names),
             "region": [[atom_data(a) for a in p.atoms] for p in spec.region.pieces],

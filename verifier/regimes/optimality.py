@@ -159,17 +159,22 @@ def merged(pieces: Sequence[Sequence[Atom]], names: Sequence[str], budget: Budge
     exact, less simplified)."""
     out = [irredundant([normalised_atom(a) for a in p], names)[0] for p in pieces]
     changed, tests = True, 0
+    failed: set = set()   # pairs whose union is not convex stay so: never tested twice
     while changed and tests < MAX_MERGE_TESTS:
         changed = False
         for i in range(len(out)):
             for j in range(i + 1, len(out)):
+                if (out[i], out[j]) in failed:
+                    continue
                 if budget is not None:
                     budget.check(STAGE)
                 tests += 1
                 if tests > MAX_MERGE_TESTS:    # stop simplifying: the pieces stay exact, unmerged
                     break
                 u = union_if_convex(out[i], out[j], names)
-                if u is not None:
+                if u is None:
+                    failed.add((out[i], out[j]))
+                else:
                     out[i] = u
                     del out[j]
                     changed = True

@@ -63,11 +63,17 @@ def nice(p: Polytope, names: Sequence[str]) -> Polytope:
 
 
 def valid_on(atom: Atom, p: Polytope) -> bool:
-    """Does the polytope (with its strict atoms) lie in the half-space `atom`?  Read off the
-    generators of its closure's cone: form >= 0 on the closure iff it is >= 0 on every generator
-    (and 0 on lines); for form > 0 the face where form = 0 must also miss the polytope, i.e. have no
-    vertex or lie where some strict atom of the polytope vanishes identically."""
+    """Does the polytope (with its strict atoms) lie in the half-space `atom`?  (holds_on_cone)"""
     cone = p.cone if p.cone is not None else Cone.of(p.polyhedron.atoms, tuple(p.point))
+    return holds_on_cone(atom, cone, p.polyhedron.atoms)
+
+
+def holds_on_cone(atom: Atom, cone: Cone, atoms: Sequence[Atom]) -> bool:
+    """Does the polyhedron `atoms` (whose closure has the generators `cone`) lie in the half-space
+    `atom`?  Read off the generators: form >= 0 on the closure iff it is >= 0 on every generator
+    (and 0 on lines); for form > 0 the face where form = 0 must also miss the polyhedron, i.e. have
+    no vertex or lie where some strict atom vanishes identically.  Exact, and sufficient only: a
+    False for a strict atom may still hold (callers that must know decide by LP then)."""
     h = cone.vector(atom.form)
     vals = [_dot(h, r) for r, _ in cone.rays]
     if any(v < 0 for v in vals) or any(_dot(h, l) for l in cone.lines):
@@ -77,7 +83,7 @@ def valid_on(atom: Atom, p: Polytope) -> bool:
     face = [r for (r, _), v in zip(cone.rays, vals) if v == 0]
     if not any(r[-1] > 0 for r in face):
         return True
-    for s in p.polyhedron.atoms:
+    for s in atoms:
         if s.strict:
             hs = cone.vector(s.form)
             if all(_dot(hs, r) == 0 for r in face) and not any(_dot(hs, l) for l in cone.lines):

@@ -51,7 +51,7 @@ from verifier.regimes.polytope import cell_polytope, convex_union, nice, region_
 from verifier.regimes.spec import spec_of, targets
 from verifier.regimes.thresholds import thresholds, Threshold
 from verifier.regimes.witness import counterexamples
-from verifier.regimes.work import assemble, finish_cell, PROVED, REFUTED, Regime, UNKNOWN
+from verifier.regimes.work import assemble, certify_regime, finish_cell, PROVED, REFUTED, Regime, UNKNOWN
 from verifier.standalone import check_certificates as checker
 
 
@@ -96,7 +96,8 @@ def _key(spec, cell, index):
 
 
 def _shown(members, polys, by_piece, pieces, names):
-    """Presented polytopes of one regime: per region piece, the merged union when it is convex."""
+    """Presented polytopes of one regime, each with the positions (in `members`) of the cells it
+    holds: per region piece, the merged union when it is convex, else the cells themselves."""
     out = []
     ids = {id(c) for c in members}
     for piece in sorted({c.piece for c in members}):
@@ -104,12 +105,12 @@ def _shown(members, polys, by_piece, pieces, names):
         others = [p for c, p in by_piece[piece] if id(c) not in ids]
         merged = convex_union([polys[k] for k in mine], others, pieces[piece], names) \
             if len(mine) > 1 else None
-        out += [merged] if merged is not None else [polys[k] for k in mine]
+        out += [(merged, mine)] if merged is not None else [(polys[k], [k]) for k in mine]
     return out
 
 
-def _regimes(spec, cells, tgts, pieces, pool, budget):
-    """Group decided cells into regimes (same formulas and active parts) and present each."""
+def _regimes(spec, cells, tgts, pieces, pool, budget, options):
+    """Group decided cells into regimes (same formulas and active parts), present and certify each."""
     index = {e.key: i for i, e in enumerate(tgts)}
     groups: dict = {}
     for cell in cells:
@@ -125,7 +126,7 @@ def _regimes(spec, cells, tgts, pieces, pool, budget):
     for m in groups.values():
         budget.check("regime grouping")
         shown.append(_shown(m, [polys[id(c)] for c in m], by_piece, pieces, spec.names))
-    flat = [p for group in shown for p in group]
+    flat = [p for group in shown for p, _ in group]
     if pool is not None:
         nice_all = list(pool.map(_nice, flat, [spec.names] * len(flat), chunksize=8))
     else:
@@ -137,8 +138,11 @@ def _regimes(spec, cells, tgts, pieces, pool, budget):
     for r, ((_, active), members) in enumerate(groups.items()):
         polytopes = nice_all[k:k + len(shown[r])]
         k += len(shown[r])
+        budget.check("regime certificates")
+        members, certs, cover = certify_regime(spec, options, members,
+                                               [(p, ks) for p, (_, ks) in zip(polytopes, shown[r])])
         forms = tuple(members[0].forms[index[e.key]] for e in spec.exprs)
-        regimes.append(assemble(r, members, polytopes, forms, active, spec.exprs))
+        regimes.append(assemble(r, members, polytopes, forms, active, spec.exprs, certs, cover))
     return tuple(regimes)
 
 
@@ -185,7 +189,7 @@ def prove_by_regimes(claim: Claim, solver: str = "z3", timeout: float = 30.0, cr
         finish = partial(finish_cell, spec=spec, options=options, index=index, ship=False)
         cells = decompose(tgts, spec.region, spec.names, pool, progress, finish=finish, budget=budget)
         clock["decompose"] = time.perf_counter()
-        regimes = _regimes(spec, cells, tgts, pieces, pool, budget)
+        regimes = _regimes(spec, cells, tgts, pieces, pool, budget, options)
         budget.check("regime grouping")
         clock["regimes"] = time.perf_counter()
         return _assemble(claim, spec, pieces, cells, regimes, clock, solver, verdict, workers, budget,

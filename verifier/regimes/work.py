@@ -9,8 +9,16 @@ the failure polyhedron cell & {not obligation} is non-empty by construction and 
 there.  A cell where neither happens (it should not) is 'unknown' and goes to the SMT backend
 restricted to it, as does every cell when SMT per regime is asked for.
 
-`finish_cell` runs where the cell was found (a worker process, right after decomposition), so the
-heaviest work is spread by the same dynamic scheduler; `assemble` builds a Regime in the main process.
+`finish_cell` runs where the cell was found (a worker process, right after decomposition) and
+decides the cell exactly but cheaply: each obligation is a sign check on the cell's generators.  The
+certificate of a proved cell is built later, once per REGIME POLYTOPE (`certify_regime`): when the
+cells of a proved regime merge into one convex polytope Q (polytope.convex_union), one certificate on
+Q proves the claim on all of them, and the coverage tree shows each cell (or a whole subtree of
+cells) inside Q by Farkas multipliers (regimes.export).  This is what makes the proof grow with the
+number of regimes rather than cells.  A polytope where no single proof exists (an argument of a
+nested max that is active in different cells) falls back to one certificate per cell, and a cell
+that cannot be certified at all goes to the SMT backend, restricted to it.  `assemble` builds a
+Regime in the main process.
 """
 
 from __future__ import annotations
@@ -20,12 +28,13 @@ from functools import cached_property
 from typing import Mapping
 
 from verifier.expressions.expr import Affine
-from verifier.regimes.cell_proof import with_certificates
+from verifier.geometry.vertices import Cone
+from verifier.regimes.cell_proof import CellProver, NeedSplit, with_certificates
 from verifier.regimes.certificates import Certificate, certify, pack, unpack
 from verifier.regimes.decompose import Cell
 from verifier.regimes.failure import FailurePiece, failure_piece, violations
-from verifier.regimes.polytope import Polytope
-from verifier.regimes.spec import Spec
+from verifier.regimes.polytope import holds_on_cone, Polytope
+from verifier.regimes.spec import obligations, Spec
 
 PROVED, REFUTED, UNKNOWN = "proved", "refuted", "unknown"
 
@@ -38,8 +47,9 @@ class Regime:
     is convex); `point`/`dim`: a nice relative-interior point and the dimension of the first piece;
     `forms`: affine formula of each compared expression (lhs, rhs; or f for monotone);
     `active`: per side, the named parts equal to that side on the whole regime;
-    `status`: proved / refuted / unknown; `certified`: every cell was proved by a certificate that
-    passed check_certificate; `certificates` (a property): one per proved cell; `failures`: where
+    `status`: proved / refuted / unknown; `certified`: every cell lies in a polyhedron with a
+    certificate (`cover[i]`: the index in `certificates` of the one holding cell i, None for a cell
+    without); `certificates` (a property): one per certified polytope or cell; `failures`: where
     it fails;
     `smt_status`: the SMT backend's answer on the regime's cells when asked ('' otherwise);
     `detail`: loud notes (METHODS DISAGREE, decided by SMT)."""
@@ -58,6 +68,7 @@ class Regime:
     smt_status: str = ""
     detail: str = ""
     exprs: tuple = field(default=(), repr=False, compare=False)
+    cover: tuple = field(default=(), repr=False, compare=False)
 
     @cached_property
     def certificates(self) -> tuple[Certificate, ...]:
@@ -73,6 +84,9 @@ class CellVerdict:
     failures: tuple[FailurePiece, ...]
     smt: str = ""
     detail: str = ""
+    pending: bool = False   # proved by the generators' signs; the certificate comes with the regime
+    proofs: tuple = ()      # pending: the Piece proofs of spec.exprs (packed when shipped), for a
+                            # certificate of the cell alone should its regime polytope get none
 
 
 def _verdict(spec: Spec, options: Mapping, atoms, forms, pieces) -> CellVerdict:
@@ -90,18 +104,26 @@ def _verdict(spec: Spec, options: Mapping, atoms, forms, pieces) -> CellVerdict:
 def finish_cell(cell: Cell, spec: Spec, options: Mapping, index: tuple[int, ...], ship: bool) -> Cell:
     """Decide the claim on a fresh cell and attach the CellVerdict as `cell.extra`.
 
-    `index[i]` is the target number of spec.exprs[i].  The uncertified proofs are dropped (the
-    certificate holds the certified ones); with `ship` (the cell travels back from a worker) the
-    certificate travels packed (see received_certificate)."""
+    `index[i]` is the target number of spec.exprs[i].  When every obligation holds on the cell's
+    generators the cell is proved and its certificate is left to `certify_regime` (pending); else
+    the cell is decided as before by exact LP (a certificate, or the failure polyhedra).  The proofs
+    are dropped; with `ship` (the cell travels back from a worker) a certificate travels packed."""
     forms = tuple(cell.forms[i] for i in index)
-    pieces, memo = [], {"numbers": _numbers(spec)}
-    for e, i in zip(spec.exprs, index):
-        got = with_certificates(e, cell.proofs[i], cell.atoms, spec.names, cell.cone, memo)
-        if got is None:
-            pieces = None
-            break
-        pieces.append(got[1])
-    verdict = _verdict(spec, options, cell.atoms, forms, tuple(pieces) if pieces is not None else None)
+    if cell.cone is not None and all(holds_on_cone(ob, cell.cone, cell.atoms) for ob in obligations(spec, forms)):
+        proofs = tuple(cell.proofs[i] for i in index)
+        if ship:
+            memo: dict = {}
+            proofs = tuple(pack(p, memo) for p in proofs)
+        verdict = CellVerdict(PROVED, None, (), pending=True, proofs=proofs)
+    else:
+        pieces, memo = [], {"numbers": _numbers(spec)}
+        for e, i in zip(spec.exprs, index):
+            got = with_certificates(e, cell.proofs[i], cell.atoms, spec.names, cell.cone, memo)
+            if got is None:
+                pieces = None
+                break
+            pieces.append(got[1])
+        verdict = _verdict(spec, options, cell.atoms, forms, tuple(pieces) if pieces is not None else None)
     if options.get("smt_regimes") or verdict.status == UNKNOWN:
         verdict = _smt_cell(cell, spec, options, verdict)
     if ship and verdict.certificate is not None:
@@ -110,6 +132,90 @@ def finish_cell(cell: Cell, spec: Spec, options: Mapping, index: tuple[int, ...]
                     farkas=tuple(pack(f, memo) for f in c.farkas))
         verdict = replace(verdict, certificate=c)
     return replace(cell, proofs=(), extra=verdict)
+
+
+def certify_on(spec: Spec, atoms, point, cone: Cone) -> Certificate | None:
+    """A certificate of the claim on the polyhedron `atoms` (its generators `cone`, built from
+    exactly these atoms; `point` in its relative interior), found afresh by the lazy prover; None
+    when the expressions are not provably affine there or an obligation fails."""
+    numbers = _numbers(spec)
+    prover = CellProver(atoms, spec.names, point, {}, numbers, cone)
+    try:
+        got = [prover.piece(e) for e in spec.exprs]
+    except NeedSplit:
+        return None
+    memo, forms, pieces = {"numbers": numbers}, [], []
+    for e, (_, proof) in zip(spec.exprs, got):
+        done = with_certificates(e, proof, atoms, spec.names, cone, memo)
+        if done is None:
+            return None
+        forms.append(done[0])
+        pieces.append(done[1])
+    return certify(spec, atoms, forms, pieces, spec.names)
+
+
+def _cell_certificate(spec: Spec, cell: Cell) -> Certificate | None:
+    """The certificate of a pending cell alone, from the proofs the decomposition found (as the
+    lazy prover would, without searching again); afresh when they are missing."""
+    proofs = cell.extra.proofs
+    if len(proofs) != len(spec.exprs):
+        return certify_on(spec, cell.atoms, cell.point, cell.cone)
+    memo, pieces = {"numbers": _numbers(spec)}, []
+    unpacked: dict = {}
+    forms = []
+    for e, p in zip(spec.exprs, proofs):
+        got = with_certificates(e, unpack(p, unpacked) if isinstance(p, tuple) else p, cell.atoms,
+                                spec.names, cell.cone, memo)
+        if got is None:
+            return None
+        forms.append(got[0])
+        pieces.append(got[1])
+    return certify(spec, cell.atoms, forms, pieces, spec.names)
+
+
+def certify_regime(spec: Spec, options: Mapping, cells: list, shown) -> tuple[list, tuple, tuple]:
+    """Certificates for one regime: (cells with final verdicts, certificates, cover).
+
+    `shown` lists (polytope, member positions in `cells`).  When every cell of the regime is proved
+    pending, a merged polytope gets one certificate for all its members; other cells (and members of
+    a polytope without one) get their own.  A pending cell that cannot be certified is decided by
+    SMT alone (loudly, in its detail).  When some cell is refuted or unknown the regime is not
+    certified and its pending cells keep their exact (uncertified) verdict: the claim fails anyway."""
+    cells = list(cells)
+    certs: list = []
+    cover: list = [None] * len(cells)
+    for k, c in enumerate(cells):
+        v = c.extra
+        if v.certificate is not None:
+            cover[k] = len(certs)
+            certs.append(v.certificate)
+    if not all(c.extra.status == PROVED for c in cells):
+        cells = [replace(c, extra=replace(c.extra, proofs=())) if c.extra.proofs else c for c in cells]
+        return cells, tuple(certs), tuple(cover)
+    for poly, members in shown:
+        todo = [k for k in members if cover[k] is None]
+        if not todo:
+            continue
+        if len(members) > 1:
+            atoms = tuple(poly.polyhedron.atoms)
+            cert = certify_on(spec, atoms, poly.point, Cone.of(atoms, spec.names))
+            if cert is not None:
+                for k in todo:
+                    cover[k] = len(certs)
+                    cells[k] = replace(cells[k], extra=replace(cells[k].extra, proofs=()))
+                certs.append(cert)
+                continue
+        for k in todo:
+            cell = cells[k]
+            cert = _cell_certificate(spec, cell)
+            if cert is not None:
+                cover[k] = len(certs)
+                certs.append(cert)
+                cells[k] = replace(cell, extra=replace(cell.extra, proofs=()))
+            else:
+                verdict = _smt_cell(cell, spec, options, replace(cell.extra, status=UNKNOWN, pending=False))
+                cells[k] = replace(cell, extra=verdict)
+    return cells, tuple(certs), tuple(cover)
 
 
 def _numbers(spec: Spec) -> dict:
@@ -162,13 +268,21 @@ def _status(statuses) -> str:
     return overall(statuses)
 
 
-def assemble(index: int, cells, polytopes, forms, active, exprs) -> Regime:
-    """A regime from its decided cells and presented polytopes."""
+def assemble(index: int, cells, polytopes, forms, active, exprs, certificates=None, cover=None) -> Regime:
+    """A regime from its decided cells and presented polytopes; `certificates` and `cover` as made
+    by certify_regime (without them: the cells' own certificates)."""
     verdicts = [c.extra for c in cells]
-    certs = tuple(v.certificate for v in verdicts if v.certificate is not None)
+    if certificates is None:
+        certificates, cover, n = [], [], 0
+        for v in verdicts:
+            cover.append(n if v.certificate is not None else None)
+            if v.certificate is not None:
+                certificates.append(v.certificate)
+                n += 1
     failures = tuple(replace(p, regime=index) for v in verdicts for p in v.failures)
     smt = "/".join(sorted({v.smt for v in verdicts if v.smt}))
     detail = "; ".join(dict.fromkeys(f"regime {index}: {v.detail}" for v in verdicts if v.detail))
+    certified = bool(cells) and all(k is not None for k in cover)
     return Regime(index, tuple(polytopes), polytopes[0].point, polytopes[0].dim, forms, active,
-                  _status(v.status for v in verdicts), len(certs) == len(verdicts), certs, failures,
-                  tuple(cells), smt, detail, tuple(exprs))
+                  _status(v.status for v in verdicts), certified, tuple(certificates), failures,
+                  tuple(cells), smt, detail, tuple(exprs), tuple(cover))

@@ -10,8 +10,8 @@ a file is trusted: anything malformed or inconsistent means NOT certified, never
 
 WHAT IS PROVED.  A file states a claim about expressions built from affine forms (rational
 coefficients) with min, max and sums, over a region R = R_0 or R_1 or ... (each R_k a list of
-constraints f >= 0 or f > 0, f affine).  It lists cells C_1, C_2, ... (polyhedra of the same kind),
-each with a certificate, and one coverage tree per R_k.  In exact rational arithmetic this script
+constraints f >= 0 or f > 0, f affine).  It lists cells C_1, C_2, ... (polyhedra of the same kind:
+a regime of the proof, or a piece of one), each with a certificate, and one coverage tree per R_k.  In exact rational arithmetic this script
 checks:
  1. On every cell each compared expression equals one affine form: for min(e_1, ..., e_r) the
     certificate names the active argument e_j, takes its form g (recursively) and proves every other
@@ -22,8 +22,9 @@ checks:
     "f non-decreasing in p" needs the p-coefficient of f's form to be >= 0 (non-increasing: <= 0).
  3. The cells cover R: the tree of R_k starts with the constraints of R_k as its path; a split on
     a constraint a has a child with path + [a] and one with path + [not a] (not(f >= 0) is -f > 0,
-    not(f > 0) is -f >= 0), so together they cover the parent; a leaf is a cell all of whose
-    constraints are on the path, an empty path ("0 > 0" proved by Farkas multipliers), or an
+    not(f > 0) is -f >= 0), so together they cover the parent; a leaf is a cell each of whose
+    constraints is on the path or follows from the path's constraints by Farkas multipliers (so
+    the path's polyhedron lies inside the cell), an empty path ("0 > 0" proved by Farkas multipliers), or an
     earlier piece R_j, j < k, all of whose constraints are on the path (covered by R_j's own tree).
 Farkas multipliers: g == c + sum_i y_i f_i identically, with c >= 0 and every y_i >= 0, prove g >= 0
 wherever all f_i >= 0; g > 0 when moreover c > 0 or y_i > 0 for some strict constraint f_i > 0.
@@ -45,7 +46,7 @@ import json
 import sys
 from fractions import Fraction
 
-FORMAT, VERSION = "gdof-workbench-certificate", 1
+FORMAT, VERSIONS = "gdof-workbench-certificate", (1, 2)   # 2 adds containment multipliers to cell leaves
 RELATIONS = ("<=", "<", ">=", ">", "==")
 
 
@@ -218,9 +219,17 @@ def cover(k, region, cells, tree):
             a = atom(node.get("atom"))
             stack += [(node.get("holds"), path + [a]), (node.get("fails"), path + [neg(a)])]
         elif kind == "cell":
-            i = node.get("cell")
-            need(type(i) is int and 0 <= i < len(cells) and set(cells[i]) <= have,
-                 f"piece {k}: a cell leaf names a cell with a constraint not on its path")
+            i, proofs = node.get("cell"), node.get("farkas")
+            need(type(i) is int and 0 <= i < len(cells), f"piece {k}: a cell leaf names no cell")
+            if proofs is None:
+                proofs = [None] * len(cells[i])
+            need(isinstance(proofs, list) and len(proofs) == len(cells[i]),
+                 f"piece {k}: a cell leaf needs one entry per constraint of its cell")
+            for a, proof in zip(cells[i], proofs):
+                if proof is None:
+                    need(a in have, f"piece {k}: a cell leaf names a cell with a constraint not on its path")
+                else:   # the path implies the constraint a: its polyhedron lies in a's half-space
+                    farkas(dict(a[0]), path, proof, a[1], f"piece {k}: a cell leaf's containment")
         elif kind == "empty":
             farkas({}, path, node.get("farkas"), True, f"piece {k}: an empty leaf")
         else:
@@ -245,8 +254,9 @@ def check_cell(claim, cell):
 
 def read(data):
     """(claim, region, cells, coverage trees) of an export, its envelope checked; or Bad."""
-    need(isinstance(data, dict) and data.get("format") == FORMAT and data.get("version") == VERSION,
-         f"not a {FORMAT} version {VERSION} file")
+    need(isinstance(data, dict) and data.get("format") == FORMAT and type(data.get("version")) is int
+         and data["version"] in VERSIONS,
+         f"not a {FORMAT} file of version {' or '.join(map(str, VERSIONS))}")
     need(data.get("complete") is True, f"the export is incomplete: {str(data.get('incomplete'))[:300]}")
     claim = read_claim(data.get("claim"))
     region = data.get("region")
