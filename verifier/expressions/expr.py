@@ -135,6 +135,16 @@ class Affine(Expr):
     def key(self):
         return (0, self.coeffs, self.const)
 
+    def __hash__(self) -> int:  # cached: certificate caches and memos hash the same forms very often
+        got = self.__dict__.get("_hash")
+        if got is None:
+            got = self.__dict__["_hash"] = hash((self.coeffs, self.const))
+        return got
+
+    def __getstate__(self) -> dict:
+        """The fields only: a cached hash is valid in this process alone (string hashes are salted)."""
+        return {"coeffs": self.coeffs, "const": self.const}
+
     def coeff(self, name: str) -> Fraction:
         return dict(self.coeffs).get(name, Fraction(0))
 

@@ -119,3 +119,33 @@ def _one_atom(form: Affine, h, atoms: Sequence[Atom], cone) -> Farkas | None:
             if rest >= 0:
                 return Farkas(rest, ((i, lam),))
     return None
+
+
+# ---------------------------------------------------------------------------------------------
+# reuse between neighbouring polyhedra
+# ---------------------------------------------------------------------------------------------
+# Certificates found on one cell serve its neighbours: regime cells are refined depth first, so
+# consecutive cells share a prefix of atoms, and multipliers that use only shared atoms prove the
+# same fact there (the identity involves nothing else).  Reuse is checked atom by atom, never
+# assumed; the cache is per process and bounded.
+_RECENT: dict = {}
+MAX_RECENT = 20_000
+
+
+def reused(key, atoms: Sequence[Atom]) -> Farkas | None:
+    """A remembered certificate for `key` (the target form, or (form, strict)) whose multipliers
+    sit on atoms that are, at the same positions, also atoms of this polyhedron; else None."""
+    for cert, used in _RECENT.get(key, ()):
+        if all(i < len(atoms) and atoms[i] == a for i, a in used):
+            return cert
+    return None
+
+
+def remember(key, atoms: Sequence[Atom], cert: Farkas | None) -> None:
+    if cert is None:
+        return
+    if len(_RECENT) > MAX_RECENT:
+        _RECENT.clear()
+    seen = _RECENT.setdefault(key, [])
+    seen.insert(0, (cert, tuple((i, atoms[i]) for i, _ in cert.mult)))
+    del seen[4:]

@@ -28,7 +28,7 @@ from typing import Sequence
 
 from verifier.expressions.expr import Affine, Expr, Max, Min, Sum, children, evaluate
 from verifier.expressions.region import Atom
-from verifier.geometry.farkas import Farkas, farkas, farkas_by_cone
+from verifier.geometry.farkas import Farkas, farkas, farkas_by_cone, remember, reused
 from verifier.geometry.lp import ONE, combine
 
 
@@ -261,6 +261,10 @@ def _bound_certified_once(e, g, ge, b: Bound, atoms, names, cone, memo):
     elif ("f", diff) in memo:
         cert = memo[("f", diff)]
     else:
-        cert = farkas_by_cone(diff, atoms, cone) if cone is not None else farkas(diff, atoms, names, strict=False)
+        cert = reused(diff, atoms)
+        if cert is None:
+            cert = farkas_by_cone(diff, atoms, cone) if cone is not None else farkas(diff, atoms, names, strict=False)
+            remember(diff, atoms, cert)
         memo[("f", diff)] = cert
     return None if cert is None else Bound("farkas", piece=piece, cert=cert)
+

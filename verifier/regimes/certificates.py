@@ -21,7 +21,7 @@ from typing import Sequence
 
 from verifier.expressions.expr import Affine, Expr, Max, Min, Sum
 from verifier.expressions.region import Atom
-from verifier.geometry.farkas import Farkas, farkas
+from verifier.geometry.farkas import Farkas, farkas, remember, reused
 from verifier.regimes.cell_proof import Bound, Piece
 from verifier.regimes.spec import Spec, obligations
 
@@ -46,7 +46,11 @@ def certify(spec: Spec, atoms: Sequence[Atom], forms, pieces, names) -> Certific
     None when some obligation is not implied by the cell (the claim fails somewhere in it)."""
     certs = []
     for ob in obligations(spec, tuple(forms)):
-        cert = farkas(ob.form, atoms, names, ob.strict)
+        key = ("obligation", ob.form, ob.strict)
+        cert = reused(key, atoms)
+        if cert is None:
+            cert = farkas(ob.form, atoms, names, ob.strict)
+            remember(key, atoms, cert)
         if cert is None:
             return None
         certs.append(cert)

@@ -105,14 +105,16 @@ def farkas(target, cons, cert, strict, what):
     """Check that cert = {const, mult: [[i, y], ...]} proves target >= 0 (> 0) on the constraints."""
     need(isinstance(cert, dict) and isinstance(cert.get("mult"), list), f"{what}: malformed multipliers")
     c = number(cert.get("const"))
-    total, strictly = add({}, {"": c}), c > 0
+    total, strictly = {"": c}, c > 0
     for item in cert["mult"]:
         need(isinstance(item, list) and len(item) == 2, f"{what}: malformed multiplier")
         i, y = item[0], number(item[1])
         need(type(i) is int and 0 <= i < len(cons) and y >= 0, f"{what}: bad multiplier index or sign")
-        total = add(total, dict(cons[i][0]), y)
+        for n, a in cons[i][0]:          # total += y * constraint i, in place
+            total[n] = total.get(n, 0) + y * a
         strictly = strictly or (y > 0 and cons[i][1])
     need(c >= 0, f"{what}: negative constant")
+    total = {n: v for n, v in total.items() if v != 0}
     need(total == target, f"{what}: the multipliers do not add up to the target identically")
     need(strictly or not strict, f"{what}: strictness not shown")
 
