@@ -61,7 +61,9 @@ class ExportError(Exception):
 # ---------------------------------------------------------------------------------------------
 
 def num(q) -> str:
-    return format_number(Fraction(q))
+    if type(q) is not Fraction:    # ints and the like; a Fraction is printed as it is
+        q = Fraction(q)
+    return format_number(q)
 
 
 def affine_data(a: Affine) -> dict:

@@ -61,12 +61,20 @@ def need(condition, why):
 
 # --- numbers, affine forms {name: Fraction, "": constant} (no zero entries), constraints -----------
 
+_NUMBERS = {}   # text -> Fraction: certificates repeat the same few numbers very often
+
+
 def number(x):
+    if type(x) is str and x in _NUMBERS:
+        return _NUMBERS[x]
     need(isinstance(x, str) and 0 < len(x) <= 2000, f"not an exact number: {str(x)[:40]!r}")
     parts = (x[1:] if x.startswith("-") else x).split("/")
     need(len(parts) <= 2 and all(p.isascii() and p.isdigit() for p in parts), f"not an exact number: {x[:40]!r}")
     need(len(parts) == 1 or int(parts[1]) != 0, "division by zero")
-    return Fraction(x)
+    if len(_NUMBERS) > 100000:
+        _NUMBERS.clear()
+    value = _NUMBERS[x] = Fraction(x)
+    return value
 
 
 def add(f, g, k=1):
