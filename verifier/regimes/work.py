@@ -111,10 +111,12 @@ def finish_cell(cell: Cell, spec: Spec, options: Mapping, index: tuple[int, ...]
     forms = tuple(cell.forms[i] for i in index)
     if cell.cone is not None and all(holds_on_cone(ob, cell.cone, cell.atoms) for ob in obligations(spec, forms)):
         proofs = tuple(cell.proofs[i] for i in index)
-        if ship:
-            memo: dict = {}
-            proofs = tuple(pack(p, memo) for p in proofs)
         verdict = CellVerdict(PROVED, None, (), pending=True, proofs=proofs)
+        if ship:   # in a worker: certify the cell here, in parallel (its regime may still merge)
+            cert = _cell_certificate(spec, replace(cell, extra=verdict))
+            memo: dict = {}
+            verdict = replace(verdict, certificate=cert,
+                              proofs=() if cert is not None else tuple(pack(p, memo) for p in proofs))
     else:
         pieces, memo = [], {"numbers": _numbers(spec)}
         for e, i in zip(spec.exprs, index):
@@ -176,45 +178,40 @@ def _cell_certificate(spec: Spec, cell: Cell) -> Certificate | None:
 def certify_regime(spec: Spec, options: Mapping, cells: list, shown) -> tuple[list, tuple, tuple]:
     """Certificates for one regime: (cells with final verdicts, certificates, cover).
 
-    `shown` lists (polytope, member positions in `cells`).  When every cell of the regime is proved
-    pending, a merged polytope gets one certificate for all its members; other cells (and members of
-    a polytope without one) get their own.  A pending cell that cannot be certified is decided by
-    SMT alone (loudly, in its detail).  When some cell is refuted or unknown the regime is not
-    certified and its pending cells keep their exact (uncertified) verdict: the claim fails anyway."""
+    `shown` lists (polytope, member positions in `cells`).  When every cell of the regime is proved,
+    a merged polytope of pending cells gets one certificate for all its members; every other cell
+    keeps the certificate a worker made for it, or gets its own here.  A pending cell that cannot be
+    certified is decided by SMT alone (loudly, in its detail).  When some cell is refuted or unknown
+    the regime is not certified and its pending cells keep their exact (uncertified) verdict: the
+    claim fails there anyway."""
     cells = list(cells)
     certs: list = []
     cover: list = [None] * len(cells)
-    for k, c in enumerate(cells):
-        v = c.extra
-        if v.certificate is not None:
-            cover[k] = len(certs)
-            certs.append(v.certificate)
-    if not all(c.extra.status == PROVED for c in cells):
-        cells = [replace(c, extra=replace(c.extra, proofs=())) if c.extra.proofs else c for c in cells]
-        return cells, tuple(certs), tuple(cover)
-    for poly, members in shown:
-        todo = [k for k in members if cover[k] is None]
-        if not todo:
-            continue
-        if len(members) > 1:
+    proved = all(c.extra.status == PROVED for c in cells)
+    for poly, members in shown if proved else ():
+        if len(members) > 1 and all(cells[k].extra.pending for k in members):
             atoms = tuple(poly.polyhedron.atoms)
             cert = certify_on(spec, atoms, poly.point, Cone.of(atoms, spec.names))
             if cert is not None:
-                for k in todo:
+                for k in members:
                     cover[k] = len(certs)
-                    cells[k] = replace(cells[k], extra=replace(cells[k].extra, proofs=()))
                 certs.append(cert)
-                continue
-        for k in todo:
-            cell = cells[k]
+    for k, cell in enumerate(cells):
+        v = cell.extra
+        if cover[k] is None and v.certificate is not None:
+            cover[k] = len(certs)
+            certs.append(v.certificate)
+        elif cover[k] is None and proved and v.pending:
             cert = _cell_certificate(spec, cell)
             if cert is not None:
                 cover[k] = len(certs)
                 certs.append(cert)
-                cells[k] = replace(cell, extra=replace(cell.extra, proofs=()))
             else:
-                verdict = _smt_cell(cell, spec, options, replace(cell.extra, status=UNKNOWN, pending=False))
-                cells[k] = replace(cell, extra=verdict)
+                v = _smt_cell(cell, spec, options, replace(v, status=UNKNOWN, pending=False))
+        if v.proofs:
+            v = replace(v, proofs=())
+        if v is not cell.extra:
+            cells[k] = replace(cell, extra=v)
     return cells, tuple(certs), tuple(cover)
 
 
