@@ -14,7 +14,7 @@ from hypothesis import strategies as st
 from verifier.claims.kinds import relation
 from verifier.expressions.expr import max_, min_, param
 from verifier.expressions.region import constraint_text
-from verifier.regimes.optimality import contains, normalised_atom, ordered, union_if_convex, union_text
+from verifier.regimes.optimality import contains, merged, normalised_atom, ordered, union_if_convex, union_text
 from verifier.regimes.proof import prove_by_regimes
 from verifier.text.parse import parse_region
 from workbench.cli import main
@@ -87,6 +87,24 @@ def test_non_convex_unions_are_not_merged():
     upper = atoms(square + ", gamma > alpha")
     merged = union_if_convex(lower, upper, NAMES)
     assert constraint_text(ordered(merged, NAMES), reorder=True) == "0 <= alpha <= 1, 0 <= gamma <= 1"
+
+
+def test_merging_skips_pairs_without_a_common_facet_but_still_merges_tilings():
+    """Four unit squares tiling [0, 2]^2, listed with the two diagonal ones first (they share no
+    facet, so they are never tested), merge into the square; so do two segments on the line
+    gamma == alpha (the common facet is read on that line)."""
+    tiles = ["0 <= alpha <= 1, 0 <= gamma <= 1", "1 < alpha <= 2, 1 < gamma <= 2",
+             "1 < alpha <= 2, 0 <= gamma <= 1", "0 <= alpha <= 1, 1 < gamma <= 2"]
+    (whole,) = merged([atoms(t) for t in tiles], NAMES)
+    assert constraint_text(ordered(whole, NAMES), reorder=True) == "0 <= alpha <= 2, 0 <= gamma <= 2"
+    line = [atoms("0 <= alpha <= 1, gamma == alpha"), atoms("1 < alpha <= 2, gamma == alpha")]
+    (segment,) = merged(line, NAMES)
+    inside = [{"alpha": F(k, 4), "gamma": F(k, 4)} for k in range(0, 9)]
+    outside = [{"alpha": F(9, 4), "gamma": F(9, 4)}, {"alpha": F(1), "gamma": F(1, 2)}]
+    assert all(all(x.holds(p) for x in segment) for p in inside)
+    assert not any(all(x.holds(p) for x in segment) for p in outside)
+    # two corner squares touching at a point stay apart
+    assert len(merged([atoms(tiles[0]), atoms(tiles[1])], NAMES)) == 2
 
 
 # --- hand-derived sets ------------------------------------------------------------------------------

@@ -160,11 +160,12 @@ def merged(pieces: Sequence[Sequence[Atom]], names: Sequence[str], budget: Budge
     out = [irredundant([normalised_atom(a) for a in p], names)[0] for p in pieces]
     changed, tests = True, 0
     failed: set = set()   # pairs whose union is not convex stay so: never tested twice
+    planes = {}           # piece -> its hyperplanes (None: it has an equality, so maybe lower-dimensional)
     while changed and tests < MAX_MERGE_TESTS:
         changed = False
         for i in range(len(out)):
             for j in range(i + 1, len(out)):
-                if (out[i], out[j]) in failed:
+                if (out[i], out[j]) in failed or _apart(out[i], out[j], planes):
                     continue
                 if budget is not None:
                     budget.check(STAGE)
@@ -182,6 +183,41 @@ def merged(pieces: Sequence[Sequence[Atom]], names: Sequence[str], budget: Budge
             if changed:
                 break
     return out
+
+
+def _plane(form) -> tuple:
+    lead = form.coeffs[0][1]
+    return tuple((n, c / lead) for n, c in form.coeffs), form.const / lead
+
+
+def _hyperplanes(atoms: Sequence[Atom]):
+    """(equalities, hyperplanes of the other atoms on their affine hull), each hyperplane up to a
+    non-zero factor; None when it cannot tell (an atom bounding a hyperplane twice)."""
+    atoms = [a for a in atoms if a.form.coeffs]
+    forms = {a.form for a in atoms if not a.strict}
+    eqs = [a for a in atoms if not a.strict and _neg(a).form in forms]
+    rest = [a for a in atoms if a not in eqs]
+    eq_planes = frozenset(_plane(a.form) for a in eqs)
+    out = set()
+    for a in (_on_hull(rest, eqs) if eqs else rest):
+        key = _plane(a.form)
+        if key in out:
+            return None
+        out.add(key)
+    return eq_planes, frozenset(out)
+
+
+def _apart(p, q, planes) -> bool:
+    """A quick reason not to test a pair: two pieces of full dimension on the same affine hull, with
+    disjoint relative interiors, have a convex union only when they meet along a common facet,
+    whose hyperplane then bounds both (irredundant) pieces.  Skipping a pair only leaves the sets
+    less simplified, never wrong."""
+    for x in (p, q):
+        if x not in planes:
+            planes[x] = _hyperplanes(x)
+    if planes[p] is None or planes[q] is None or planes[p][0] != planes[q][0]:
+        return False
+    return not planes[p][1] & planes[q][1]
 
 
 def _neg(a: Atom) -> Atom:
