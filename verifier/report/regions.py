@@ -43,7 +43,7 @@ def regime_facts(rr: RegionRegimes, g) -> dict:
     if rr.pointed and not g.corners:
         facets = "none: the region is empty here" + (f" (without any one of {facets} it would not be)"
                                                      if g.facets else "")
-    return {"where": union_text(g.pieces), "at": _point(g.point), "facets": facets,
+    return {"where": union_text(g.pieces, names=rr.names), "at": _point(g.point), "facets": facets,
             "redundant": "; ".join(listed("redundant")) or "none", "not shown": "; ".join(listed("not shown")),
             "corners": corners if g.corners or not rr.pointed else "none: the region is empty here"}
 
