@@ -249,9 +249,10 @@ def gap_text(g: Gap) -> str:
     if g.value is None:
         return f"sup({g.direction}) is unbounded" if g.point is not None or g.regime is not None \
             else f"sup({g.direction}): not computed"
-    how = "attained" if g.attained else "supremum, approached but not attained"
-    where = f" at {point_text(g.point)}" if g.point else ""
-    return f"max({g.direction}) = {num(g.value)}{where} ({how})"
+    if g.attained:   # a maximum: the value is taken at the point
+        return f"max({g.direction}) = {num(g.value)}" + (f" at {point_text(g.point)}" if g.point else "")
+    near = f", approached near {point_text(g.point)}" if g.point else ""
+    return f"sup({g.direction}) = {num(g.value)}{near} (not attained)"
 
 
 def failure_share_text(f: FailureRegion) -> str:

@@ -62,11 +62,21 @@ def _summary(section: ClaimReport) -> list[str]:
         out.append(sentence)
     if section.redundant:
         out.append("Redundant bounds: " + ", ".join(f"${bound_math(p.name)}$" for p in section.redundant) + ".")
-    for g in section.gaps:
-        if g.value is not None:
-            out.append(f"$\\max(\\mathrm{{{g.direction.replace(' ', '')}}}) = {number_latex(g.value)}$"
-                       + ("" if g.attained else " (supremum, not attained)") + ".")
+    out += [gap_latex(g) for g in section.gaps]
     return out
+
+
+def gap_latex(g) -> str:
+    """As build.gap_text says it: `\\max` at a point where the value is taken, `\\sup` (approached
+    near the point, not attained) where it is not, or unbounded."""
+    what = f"\\mathrm{{{g.direction.replace(' ', '')}}}"
+    at = ", ".join(f"${name_latex(k)} = {number_latex(v)}$" for k, v in (g.point or {}).items())
+    if g.value is None:
+        known = g.point is not None or g.regime is not None
+        return f"$\\sup({what})$ " + ("is unbounded." if known else "was not computed.")
+    if g.attained:
+        return f"$\\max({what}) = {number_latex(g.value)}$" + (f" at {at}" if at else "") + "."
+    return f"$\\sup({what}) = {number_latex(g.value)}$" + (f", approached near {at}" if at else "") + " (not attained)."
 
 
 def optimality_sentence(section: ClaimReport) -> str:
