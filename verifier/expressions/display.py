@@ -18,8 +18,9 @@ The rules (`names` is the claim's parameter order; other names follow alphabetic
    `1 < alpha < gamma`, `0 <= beta <= 1`; a chain continues through an expression that is the left
    side of one of the two constraints it joins (`alpha < beta` and `beta < 1`: `alpha < beta < 1`),
    never through a mere right side (`1 < alpha < gamma` and `2*alpha > gamma` stay apart).
-4. Order: equalities, then by the number of parameters, then by the first parameter in `names`,
-   lower bounds before upper ones; a chain stands where its first constraint would.
+4. Order: equalities first, then by the first parameter in `names` (all of alpha's constraints, then
+   beta's), then by the number of parameters, lower bounds before upper ones; a chain stands where
+   its first constraint would.
 The text parses (verifier.text.parse) to the same set: every step rescales by a positive number,
 reorders a conjunction or writes two constraints as the chain that parses to them (tests check it).
 """
@@ -86,7 +87,7 @@ def normal(form: Affine, rel: str, names: Sequence[str] = ()) -> Normal | None:
     rel = rel if k > 0 else _FLIP[rel]
     left = Side(tuple((n, c) for n, c in scaled if c > 0), Fraction(0))
     right = Side(tuple((n, -c) for n, c in scaled if c < 0), -form.const * k)
-    key = (len(terms), rank(terms[0][0])[0], tuple((rank(n), c) for n, c in scaled),
+    key = (rank(terms[0][0])[0], len(terms), tuple((rank(n), c) for n, c in scaled),
            rel not in (">", ">=", "=="), right.const)
     return Normal(left, rel, right, key)
 
