@@ -197,3 +197,12 @@ def test_the_demo_latex_and_json_say_the_same(demo_outputs):
     wrong = next(p for p in parts if p["exact_sets"] and p["exact_sets"]["fails"])
     assert wrong["exact_sets"]["holds_text"] == "2*alpha = gamma"
     assert wrong["failure"]["pieces"][0]["display"] == "1 < alpha < gamma, 2*alpha > gamma, beta >= 1"
+
+
+def test_where_a_facet_cuts_reads_in_the_display_form():
+    from verifier.expressions.region import Polyhedron
+    from verifier.rates.facets import _tidy
+    # old text: "a2 > a1, a1 >= 0"
+    assert _tidy(Polyhedron(atoms("a2 > a1, a1 >= 0")), ("a1", "a2")) == "0 <= a1 < a2"
+    assert _tidy(Polyhedron(atoms("a2 > a1, a1 > 1")), ("a1", "a2"), several=True) == "1 < a1 < a2"
+    assert _tidy(Polyhedron(atoms("a2 > a1, 2*a1 > 1 + a2")), ("a1", "a2"), several=True) == "(a1 < a2, 2*a1 > 1 + a2)"
