@@ -25,7 +25,7 @@ def test_the_three_user_type_bound_is_redundant_in_the_symmetric_case():
     # Hand derivation on the five W regimes [0,1/2), [1/2,2/3), [2/3,1), [1,2), [2,oo):
     # w = max(a, 1-a) is the min on the first two, z on the next two, the constant 1 beyond 2, and
     # t = (max(1,a) + (1-a)^+ + max(a,1-a))/3 is strictly larger except at a = 2/3: redundant.
-    assert report["t"].redundant and report["t"].note == "redundant"
+    assert report["t"].redundant and report["t"].note == "never active"
     assert report["w"].unique_in == (0, 1) and report["z"].unique_in == (2, 3)
     assert report["single"].unique_in == (4,) and not report["single"].redundant
     assert report["w"].note == "active in regimes 0, 1"
@@ -39,7 +39,7 @@ def test_a_bound_tied_with_another_everywhere_is_redundant_but_listed_as_active(
     report = {p.name: p for p in rp.parts}
     assert report["r"].redundant and not report["r"].active_in
     assert report["p"].active_in == report["q"].active_in != ()
-    assert report["p"].redundant and report["p"].note.startswith("redundant (only tied")
+    assert report["p"].redundant and report["p"].note.startswith("only tied: active in regime")
 
 
 def test_maximum_gap_is_exact_attained_or_not_and_unbounded():

@@ -127,7 +127,7 @@ def test_tin_meets_the_w_curve_exactly_for_alpha_up_to_one_half():
 def test_a_holds_set_with_a_lower_dimensional_piece():
     # hand derivation: min(gamma, 1) == min(gamma, 1 + alpha) iff gamma <= 1 or alpha = 0 (alpha >= 0)
     op = exact_sets(min_(g, 1), "==", min_(g, 1 + a), "0 <= alpha <= 2, 0 <= gamma <= 3")
-    assert union_text(op.holds) == "alpha == 0 or gamma <= 1"
+    assert union_text(op.holds) == "alpha = 0 or gamma <= 1"
     assert union_text(op.fails) == "alpha > 0, gamma > 1"
 
 
@@ -231,7 +231,7 @@ def test_report_shows_the_sets_in_every_format(tmp_path, capsys):
     path.write_text(textwrap.dedent(CASE))
     assert main(["report", str(path)]) == 1
     out = capsys.readouterr().out
-    assert "Holds exactly when: alpha == 0 or gamma <= 1   (within 0 <= alpha <= 2, 0 <= gamma <= 3)" in out
+    assert "Holds exactly when: alpha = 0 or gamma <= 1   (within 0 <= alpha <= 2, 0 <= gamma <= 3)" in out
     assert "Fails exactly when: alpha > 0, gamma > 1" in out
     assert main(["report", "--format", "latex", str(path)]) == 1
     out = capsys.readouterr().out
@@ -239,6 +239,7 @@ def test_report_shows_the_sets_in_every_format(tmp_path, capsys):
             r"0 \le \gamma \le 3$), and fails exactly when $\alpha > 0,\ \gamma > 1$.") in out
     assert main(["report", "--format", "json", str(path)]) == 1
     sets = json.loads(capsys.readouterr().out)["claims"][0]["parts"][0]["exact_sets"]
-    assert sets["holds_text"] == "alpha == 0 or gamma <= 1" and len(sets["fails"]) == 1
+    assert sets["holds_text"] == "alpha = 0 or gamma <= 1" and len(sets["fails"]) == 1
+    assert sets["within_text"] == "0 <= alpha <= 2, 0 <= gamma <= 3"
     assert main(["bundle", str(path), str(tmp_path / "out")]) == 1
     assert (tmp_path / "out" / "plots" / "claim01_exact.png").exists()

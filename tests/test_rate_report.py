@@ -237,12 +237,12 @@ def test_report_shows_each_region_once_in_every_format(mac_report):
     from verifier.report.markdown import render_markdown
     from verifier.report.text import render_text
     text = render_text(mac_report)
-    assert text.count("regimes of region capacity: 2 regime(s)") == 1
+    assert text.count("regimes of region capacity: 2 regimes") == 1
     assert "as under the claim 'sum' above" in text
     assert "corners: (0, 0), (0, a2), (a1 - a2, a2), (a1, 0)" in text
     assert "facets: (2) d2 <= a2; (3) d1 + d2 <= a1; d1 >= 0; d2 >= 0" in text
     from verifier.report.markdown import render_html
-    assert "regimes of region capacity: 2 regime(s)" in render_html(mac_report)
+    assert "regimes of region capacity: 2 regimes" in render_html(mac_report)
     md = render_markdown(mac_report)
     assert "| corner points |" in md and "(a1 - a2, a2)" in md
     tex = render_latex(mac_report)

@@ -55,7 +55,7 @@ def test_boundary_points_belong_to_the_regime_on_their_right():
 #   R2: u < beta, u < alpha         lhs = gamma,         rhs = alpha          (holds)
 #   R3a: alpha < beta < u           lhs = 2 alpha,       rhs = gamma - beta   (fails iff beta < u - alpha)
 #   R3b: alpha < u < beta           lhs = 2 alpha,       rhs = alpha          (holds)
-# Adjacent pairs: R1|R2 and R3a|R3b across beta = u (printed gamma = alpha + beta), R1|R3a across beta = alpha, R2|R3b across u = alpha.
+# Adjacent pairs: R1|R2 and R3a|R3b across beta = u (printed alpha + beta = gamma), R1|R3a across beta = alpha, R2|R3b across u = alpha.
 HAND_REGION = Region.of(*atoms_of(g, ">", a), *atoms_of(a, ">", 1), *atoms_of(b, ">=", 0))
 HAND_LHS = min_(g, a + b, 2 * a)
 HAND_RHS = max_(a, g - b)
@@ -72,8 +72,8 @@ def test_three_parameter_claim_matches_the_hand_derived_regimes():
     idx = {name: found[(l, r)].index for name, (l, r, _) in HAND.items()}
     pair = lambda x, y: (min(idx[x], idx[y]), max(idx[x], idx[y]))  # noqa: E731
     by_text = {t.text: set(t.between) for t in rp.thresholds}
-    assert by_text == {"gamma = alpha + beta": {pair("R1", "R2"), pair("R3a", "R3b")},
-                       "alpha = beta": {pair("R1", "R3a")}, "alpha = gamma/2": {pair("R2", "R3b")}}
+    assert by_text == {"alpha + beta = gamma": {pair("R1", "R2"), pair("R3a", "R3b")},
+                       "alpha = beta": {pair("R1", "R3a")}, "2*alpha = gamma": {pair("R2", "R3b")}}
     assert rp.status == "refuted" and rp.agree
     # the failure set is exactly lhs < rhs (hand: 2 beta < gamma - alpha or beta < gamma - 2 alpha)
     for piece in rp.failure.pieces:

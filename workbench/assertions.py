@@ -63,7 +63,8 @@ def assert_case(path, solver: str = "z3", timeout: float = 30.0, cross_check: bo
     if run.error:
         raise CaseFileError(run.error)
     if run.mismatches:
-        lines = [f"{len(run.mismatches)} claim(s) of {run.path} differ from the declared verdict:"]
+        n = len(run.mismatches)
+        lines = [f"{vt.count(n, 'claim')} of {run.path} {'differs' if n == 1 else 'differ'} from the declared verdict:"]
         for cc, outcome in run.mismatches:
             declared = f"declared {cc.expect}" if cc.expect else "declares no expect"
             lines.append(f"{cc.key} '{cc.claim.name}': {declared}, came out {outcome.status}")

@@ -187,9 +187,9 @@ def text_lines(runs, args) -> list[str]:
     n_wrong = sum(len(r.mismatches) for r in runs)
     lines.append("")
     if bad:
-        lines.append(f"{bad} case file(s) could not be checked (bad input; see the errors above).")
+        lines.append(f"{vt.count(bad, 'case file')} could not be checked (bad input; see the errors above).")
     lines.append("Every verdict as declared." if not n_wrong else
-                 f"{n_wrong} verdict(s) differ from the declared ones.")
+                 f"{vt.count(n_wrong, 'verdict')} {'differs' if n_wrong == 1 else 'differ'} from the declared ones.")
     return lines
 
 

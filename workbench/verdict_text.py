@@ -22,6 +22,11 @@ def verdict_phrase(status: str, expect: str | None = None) -> str:
     return status + (f" (declared {expect})" if expect and expect != status else "")
 
 
+def count(n: int, word: str) -> str:
+    """'1 claim', '2 claims': a number with the right form of the noun (never 'claim(s)')."""
+    return f"{n} {word if n == 1 else word + 's'}"
+
+
 def fmt(q: Fraction) -> str:
     return format_number(Fraction(q))
 

@@ -471,6 +471,9 @@ def _text_term(name: str, mag: Fraction) -> str:
     return f"{mag.numerator}*{name}/{mag.denominator}"
 
 
+text_term = _text_term   # one term in the text syntax (`2*alpha`, `gamma/2`), for other printers
+
+
 def _affine_text(a: Affine) -> str:
     return join_affine(a, _text_term, format_number)
 

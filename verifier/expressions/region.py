@@ -19,7 +19,8 @@ from functools import cached_property
 from typing import Iterable, Mapping
 
 from verifier.core.errors import InputError, RegionError
-from verifier.expressions.expr import Affine, Expr, affine, eval_affine, lift, scale, add, to_text, format_number
+from verifier.expressions.expr import (Affine, Expr, affine, eval_affine, lift, scale, add, to_text, format_number,
+                                      text_term)
 
 RELATIONS = ("<", "<=", "==", ">=", ">")
 
@@ -437,9 +438,10 @@ class Notation:
     joiner: str = ", "
     everywhere: str = "everywhere"
     affine: object = None       # affine(Affine) -> str, for equalities in several parameters
+    term: object = None         # term(name, magnitude) -> str: one term of a side (display.py)
 
 
-TEXT = Notation(rel=lambda r: r, atom=lambda a: a.text(), affine=to_text)
+TEXT = Notation(rel=lambda r: r, atom=lambda a: a.text(), affine=to_text, term=text_term)
 
 
 def equation_sides(form: Affine) -> tuple[Affine, Affine]:

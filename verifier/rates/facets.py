@@ -62,24 +62,23 @@ def _activity(j: int, q: RateInequality, result) -> FacetActivity:
         return FacetActivity(j, q, "unknown", (result.detail or "undecided",))
     failure = getattr(result, "failure", None)
     pieces = [p.polyhedron for p in failure.pieces] if failure is not None else []
-    where = _intervals(pieces) or tuple(_tidy(p) for p in pieces)
+    order = tuple(getattr(result, "names", ()))
+    where = _intervals(pieces) or tuple(_tidy(p, order, several=len(pieces) > 1) for p in pieces)
     cuts = tuple(t.text for t in getattr(result, "thresholds", ()))
     return FacetActivity(j, q, "facet", where, cuts)
 
 
-def _tidy(poly) -> str:
-    """A piece as short text: implied constraints dropped (exact Farkas test), each constraint scaled
-    so its first coefficient is +-1 (alpha > 0, not 2*alpha/3 > 0)."""
-    from verifier.expressions.expr import affine
+def _tidy(poly, order=(), several: bool = False) -> str:
+    """A piece as short text: implied constraints dropped (exact Farkas test), then shown in the
+    display form of verifier.expressions.display (one normal form per hyperplane, chains, the
+    parameters in `order`); in parentheses when it is one of several pieces and has several parts."""
+    from verifier.expressions.display import display_parts
     from verifier.geometry.shape import irredundant
-    from verifier.expressions.region import Atom, Polyhedron
     names = sorted(poly.params())
     kept, _ = irredundant(poly.atoms, names) if poly.atoms else ((), ())
-    scaled = []
-    for atom in kept:
-        coeffs, constant, strict = atom.direction if atom.form.coeffs else ((), atom.form.const, atom.strict)
-        scaled.append(Atom(affine(coeffs, constant), strict))
-    return Polyhedron(tuple(scaled)).text()
+    parts = display_parts(kept, order)
+    text = ", ".join(parts) or "everywhere"
+    return f"({text})" if several and len(parts) > 1 else text
 
 
 def _later(a, b):

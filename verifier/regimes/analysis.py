@@ -33,14 +33,16 @@ class PartReport:
 
     @property
     def note(self) -> str:
+        """What a report says beside the name: 'never active', 'only tied: active in regime 3',
+        'active in regimes 0, 2' (a redundant part is listed as redundant already)."""
         if self.redundant:
-            return "redundant" if not self.active_in else \
-                "redundant (only tied: active in regimes " + _list(self.active_in) + ")"
-        return "active in regimes " + _list(self.active_in)
+            return "never active" if not self.active_in else "only tied: " + _active(self.active_in)
+        return _active(self.active_in)
 
 
-def _list(indices) -> str:
-    return ", ".join(str(i) for i in indices)
+def _active(indices) -> str:
+    word = "regime" if len(indices) == 1 else "regimes"
+    return f"active in {word} " + ", ".join(str(i) for i in indices)
 
 
 def part_reports(parts: Sequence[tuple[int, str]], regimes: Sequence) -> tuple[PartReport, ...]:

@@ -39,7 +39,8 @@ from typing import Sequence
 from verifier.claims.kinds import Claim, violated_at, witness_region
 from verifier.core.budget import Budget
 from verifier.expressions.expr import affine
-from verifier.expressions.region import TEXT, Atom, Notation, Polyhedron, constraint_text
+from verifier.expressions.display import DISPLAY, display_parts, display_text
+from verifier.expressions.region import Atom, Notation, Polyhedron
 from verifier.geometry.lp import feasible
 from verifier.geometry.shape import difference, implied, irredundant, nice_point
 from verifier.regimes.spec import Spec, obligations
@@ -420,29 +421,29 @@ def contains(pieces, within, point) -> bool:
     return any(Polyhedron(tuple(p)).contains(point) for p in pieces)
 
 
-def union_text(pieces, notation: Notation = TEXT, joiner: str = " or ", nowhere: str = "nowhere") -> str:
-    """`0 <= alpha <= 1/2 or alpha == 1`; a piece of several constraints in parentheses when
-    there are several pieces."""
+def union_text(pieces, notation: Notation = DISPLAY, joiner: str = " or ", nowhere: str = "nowhere",
+               names: Sequence[str] = ()) -> str:
+    """`0 <= alpha <= 1/2 or alpha = 1` (verifier.expressions.display: normal forms, chains, the
+    parameters in the order `names`); a piece of several constraints in parentheses when there are
+    several pieces (`,` binds tighter than `or`, so the parentheses only help the reader)."""
     if not pieces:
         return nowhere
-    texts = [constraint_text(p, notation, reorder=True) for p in pieces]
+    parts = [display_parts(p, names, notation) for p in pieces]
+    texts = [notation.joiner.join(x) or notation.everywhere for x in parts]
     if len(texts) == 1:
         return texts[0]
-    return joiner.join(f"({t})" if len(p) > 1 and not _is_chain(p) else t for t, p in zip(texts, pieces))
+    return joiner.join(f"({t})" if len(x) > 1 else t for t, x in zip(texts, parts))
 
 
-def _is_chain(p) -> bool:
-    """One parameter's bounds (`1 < alpha < 2`, `alpha == 1`) read without parentheses."""
-    return len({a.form.coeffs[0][0] for a in p}) == 1 and all(len(a.form.coeffs) == 1 for a in p)
-
-
-def sentences(op: OptimalityRegion, notation: Notation = TEXT, joiner: str = " or ") -> tuple[str, str, str]:
-    """(holds, fails, within) as text in the notation: what the renderers print."""
-    within = constraint_text(op.within, notation, reorder=True) if op.within else ""
-    if op.substituted:   # the equalities of the slice, printed as the region prints them
+def sentences(op: OptimalityRegion, notation: Notation = DISPLAY, joiner: str = " or ") -> tuple[str, str, str]:
+    """(holds, fails, within) as text in the notation: what the renderers print, every constraint in
+    the display form of verifier.expressions.display and the order of the claim's parameters."""
+    within = display_text(op.within, op.names, notation) if op.within else ""
+    if op.substituted:   # the equalities of the slice, in the same display form
         from verifier.expressions.expr import param
         from verifier.expressions.region import atoms_of
         eqs = [a for n, e in op.substituted for a in atoms_of(param(n), "==", e)]
-        on = constraint_text(eqs, notation)
+        on = display_text(eqs, op.names, notation)
         within = f"{within}{notation.joiner}{on}" if within else on
-    return (union_text(op.holds, notation, joiner), union_text(op.fails, notation, joiner), within)
+    return (union_text(op.holds, notation, joiner, names=op.names),
+            union_text(op.fails, notation, joiner, names=op.names), within)

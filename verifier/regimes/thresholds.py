@@ -19,7 +19,8 @@ from math import gcd
 from typing import Mapping, Sequence
 
 from verifier.expressions.expr import Affine, Expr, affine, common_denominator, substitute
-from verifier.expressions.region import Atom, Region, atom_text
+from verifier.expressions.display import equation_display
+from verifier.expressions.region import Atom, Region
 from verifier.geometry.lp import feasible, substitute_affine
 from verifier.geometry.shape import shape
 from verifier.regimes.decompose import Cell, decompose, normalise
@@ -27,7 +28,7 @@ from verifier.regimes.decompose import Cell, decompose, normalise
 
 @dataclass(frozen=True)
 class Threshold:
-    """The hyperplane `form = 0` (normalised: first coefficient +1), as text like 'alpha = gamma/2',
+    """The hyperplane `form = 0` (normalised: first coefficient +1), as text like '2*alpha = gamma',
     with the pairs of regime indices (i < j) it separates."""
 
     form: Affine
@@ -35,8 +36,10 @@ class Threshold:
     between: tuple[tuple[int, int], ...]
 
 
-def equation_text(form: Affine) -> str:
-    return atom_text(form, "==").replace(" == ", " = ")
+def equation_text(form: Affine, names: Sequence[str] = ()) -> str:
+    """The display form of the hyperplane (verifier.expressions.display): `2*alpha = gamma`, the
+    same sides as every regime row and exact set prints it."""
+    return equation_display(form, names)
 
 
 def _integer_vertices(p, names, cache: dict):
@@ -263,7 +266,7 @@ def thresholds(regimes: Sequence, names: Sequence[str], budget=None) -> tuple[Th
                 if _share_facet(pa, facets[i], facets[j]) or _adjacent(pa, pb, h, names):
                     pairs.add(key)
         if pairs:
-            out.append(Threshold(h, equation_text(h), tuple(sorted(pairs))))
+            out.append(Threshold(h, equation_text(h, names), tuple(sorted(pairs))))
     return tuple(sorted(out, key=lambda t: (t.between, t.text)))
 
 

@@ -19,8 +19,8 @@ from typing import Mapping, Sequence
 from verifier.claims.kinds import Claim
 from verifier.claims.witness import Counterexample
 from verifier.expressions.expr import Affine, format_number
+from verifier.expressions.display import display_text
 from verifier.expressions.region import Atom
-from verifier.expressions.region import constraint_text as region_constraint_text
 from verifier.regimes.analysis import Gap, PartReport
 from verifier.regimes.failure import FailureRegion
 from verifier.regimes.polytope import Polytope
@@ -51,10 +51,11 @@ class RegimeRow:
     verdict: str
     certified: bool
     note: str = ""
+    names: tuple[str, ...] = ()   # the claim's parameter order, in which the constraints read
 
     @property
     def constraints(self) -> str:
-        texts = [constraint_text(p.polyhedron.atoms) for p in self.polytopes]
+        texts = [constraint_text(p.polyhedron.atoms, self.names) for p in self.polytopes]
         return texts[0] if len(texts) == 1 else " or ".join(f"({t})" for t in texts)
 
 
@@ -158,12 +159,12 @@ class Report:
         return tally(c.status for c in self.claims)
 
 
-def _regime_row(regime, labels: Sequence[str]) -> RegimeRow:
+def _regime_row(regime, labels: Sequence[str], names: Sequence[str] = ()) -> RegimeRow:
     sides = tuple(SideRow(labels[s], regime.forms[s],
                           regime.active[s] if s < len(regime.active) else ())
                   for s in range(len(labels)))
     return RegimeRow(regime.index, regime.polytopes, dict(regime.point), regime.dim, sides,
-                     regime.status, regime.certified, regime.detail)
+                     regime.status, regime.certified, regime.detail, tuple(names))
 
 
 def _regimes_holding(regimes: Sequence[RegimeRow], point: Mapping[str, Fraction]) -> tuple[int, ...]:
@@ -185,7 +186,7 @@ def claim_report(proof: RegimeProof, label: str = "", expect: str | None = None)
     """The report of one RegimeProof (no solver calls; everything is read off the proof)."""
     c = proof.claim
     smt = proof.smt
-    regimes = tuple(_regime_row(r, proof.labels) for r in proof.regimes)
+    regimes = tuple(_regime_row(r, proof.labels, proof.names) for r in proof.regimes)
     return ClaimReport(
         claim=c, name=c.name, label=label, statement=c.text(), kind=c.kind, status=proof.status,
         method=proof.method, detail=proof.detail, names=proof.names, labels=proof.labels,
@@ -219,9 +220,11 @@ def build_report(proofs, title: str = "", source: str = "", solver: str = "z3",
     return Report(title, source, tuple(entries), solver, dict(versions), caution)
 
 
-def constraint_text(atoms: Sequence[Atom]) -> str:
-    """'1/2 <= alpha < 2/3, gamma > alpha' (exact numbers); 'everywhere' when there is no atom."""
-    return region_constraint_text(atoms, reorder=True)
+def constraint_text(atoms: Sequence[Atom], names: Sequence[str] = ()) -> str:
+    """'1/2 <= alpha < 2/3, alpha < gamma' (exact numbers, verifier.expressions.display: normal forms,
+    chains, the parameters in the order `names`); 'everywhere' when there is no atom.  Display only:
+    region.constraint_text is the form that parses back to the same atoms in the same order."""
+    return display_text(atoms, names)
 
 
 # ---------------------------------------------------------------------------------------------
@@ -246,9 +249,10 @@ def gap_text(g: Gap) -> str:
     if g.value is None:
         return f"sup({g.direction}) is unbounded" if g.point is not None or g.regime is not None \
             else f"sup({g.direction}): not computed"
-    how = "attained" if g.attained else "supremum, approached but not attained"
-    where = f" at {point_text(g.point)}" if g.point else ""
-    return f"max({g.direction}) = {num(g.value)}{where} ({how})"
+    if g.attained:   # a maximum: the value is taken at the point
+        return f"max({g.direction}) = {num(g.value)}" + (f" at {point_text(g.point)}" if g.point else "")
+    near = f", approached near {point_text(g.point)}" if g.point else ""
+    return f"sup({g.direction}) = {num(g.value)}{near} (not attained)"
 
 
 def failure_share_text(f: FailureRegion) -> str:

@@ -12,7 +12,7 @@ from typing import Mapping
 
 from verifier.expressions.expr import Affine, to_text
 from verifier.expressions.region import Atom, Polyhedron
-from verifier.report.build import ClaimReport, Report, num
+from verifier.report.build import ClaimReport, Report, constraint_text, num
 
 SCHEMA_VERSION = 2
 
@@ -56,10 +56,11 @@ def counterexample_json(c) -> dict:
             "rhs_active": list(c.rhs_active), "strictly_inside": c.strictly_inside, "origin": c.origin}
 
 
-def failure_json(f) -> dict | None:
+def failure_json(f, names=()) -> dict | None:
     if f is None:
         return None
     pieces = [{"regime": p.regime, "obligation": p.obligation, "region": polyhedron_json(p.polyhedron),
+               "display": constraint_text(p.polyhedron.atoms, names),
                "dim": p.dim, "full_dimensional": p.full_dimensional, "point": point_json(p.point),
                "worst_value": None if p.worst_value is None else num(p.worst_value),
                "worst_point": point_json(p.worst_point), "worst_attained": p.worst_attained}
@@ -80,7 +81,7 @@ def exact_sets_json(op) -> dict | None:
             "fails": [polyhedron_json(Polyhedron(p)) for p in op.fails],
             "holds_points": [point_json(x) for x in op.holds_points],
             "fails_points": [point_json(x) for x in op.fails_points],
-            "holds_text": holds, "fails_text": fails,
+            "holds_text": holds, "fails_text": fails, "within_text": within,
             "slice": {n: to_text(e) for n, e in op.substituted}}
 
 
@@ -91,7 +92,7 @@ def section_json(s: ClaimReport) -> dict:
             "regimes": [regime_json(r) for r in s.regimes],
             "thresholds": [{"text": t.text, "form": affine_json(t.form), "between": [list(b) for b in t.between]}
                            for t in s.thresholds],
-            "failure": failure_json(s.failure),
+            "failure": failure_json(s.failure, s.names),
             "exact_sets": exact_sets_json(s.optimality),
             "counterexamples": [counterexample_json(c) for c in s.counterexamples],
             "bounds": [{"side": p.side, "name": p.name, "redundant": p.redundant,
@@ -123,7 +124,7 @@ def region_json(item) -> dict:
         return {"region": item.name, "shown": False, "reason": item.reason, "see": item.see or None}
     rr = item
     rows = [{"index": i, "text": rr.row_label(i)} for i in range(len(rr.rows))]
-    regimes = [{"index": g.index, "where": union_text(g.pieces), "point": point_json(g.point), "dim": g.dim,
+    regimes = [{"index": g.index, "where": union_text(g.pieces, names=rr.names), "point": point_json(g.point), "dim": g.dim,
                 "cells": g.cells, "status": list(g.status), "bounds": [None if b is None else affine_json(b) for b in g.bounds],
                 "corners": [[affine_json(f) for f in c] for c in g.corners]} for g in rr.regimes]
     cuts = [{"text": t.text, "form": affine_json(t.form) if t.form is not None else None,

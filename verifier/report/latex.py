@@ -10,9 +10,8 @@ tool prints one LaTeX dialect.
 from __future__ import annotations
 
 from verifier.expressions.expr import affine
-from verifier.expressions.region import Notation
 from verifier.report.build import ClaimReport, Report, num
-from verifier.report.latex_math import (LATEX_RELS, affine_latex, atom_latex, bound_math, caption_math,
+from verifier.report.latex_math import (DISPLAY_LATEX, affine_latex, atom_latex, bound_math, caption_math,
                                         claim_math, compared_side_math, condition_latex, equation_latex,
                                         escape, label_math, name_latex, number_latex, side_math)
 from verifier.text.latex_out import expr_to_latex
@@ -23,7 +22,7 @@ __all__ = ["render_latex", "latex_document", "referee_sentence", "claim_latex", 
            "label_math", "side_math"]
 
 def regime_condition(row) -> str:
-    conds = [condition_latex(p.polyhedron.atoms) for p in row.polytopes]
+    conds = [condition_latex(p.polyhedron.atoms, row.names) for p in row.polytopes]
     return conds[0] if len(conds) == 1 else r"\text{ or }".join(f"({c})" for c in conds)
 
 
@@ -50,11 +49,12 @@ def counterexample_table(section: ClaimReport, limit: int = 8) -> str:
 def _summary(section: ClaimReport) -> list[str]:
     out = []
     if section.thresholds:
-        items = ", ".join(f"${equation_latex(t.form)}$" for t in section.thresholds)
+        items = ", ".join(f"${equation_latex(t.form, section.names)}$" for t in section.thresholds)
         out.append(f"Thresholds: {items}.")
     f = section.failure
     if f is not None and f.pieces:
-        where = "; ".join(f"${regime_condition_of(p.polyhedron)}$ (dimension {p.dim})" for p in f.pieces)
+        where = "; ".join(f"${regime_condition_of(p.polyhedron, section.names)}$ (dimension {p.dim})"
+                          for p in f.pieces)
         share = escape(f"{num(f.share)} ({f.share_note})" if f.share is not None else f.share_note)
         out.append(f"The claim fails on: {where}. Share of the region: {share}.")
     sentence = optimality_sentence(section)
@@ -62,11 +62,21 @@ def _summary(section: ClaimReport) -> list[str]:
         out.append(sentence)
     if section.redundant:
         out.append("Redundant bounds: " + ", ".join(f"${bound_math(p.name)}$" for p in section.redundant) + ".")
-    for g in section.gaps:
-        if g.value is not None:
-            out.append(f"$\\max(\\mathrm{{{g.direction.replace(' ', '')}}}) = {number_latex(g.value)}$"
-                       + ("" if g.attained else " (supremum, not attained)") + ".")
+    out += [gap_latex(g) for g in section.gaps]
     return out
+
+
+def gap_latex(g) -> str:
+    """As build.gap_text says it: `\\max` at a point where the value is taken, `\\sup` (approached
+    near the point, not attained) where it is not, or unbounded."""
+    what = f"\\mathrm{{{g.direction.replace(' ', '')}}}"
+    at = ", ".join(f"${name_latex(k)} = {number_latex(v)}$" for k, v in (g.point or {}).items())
+    if g.value is None:
+        known = g.point is not None or g.regime is not None
+        return f"$\\sup({what})$ " + ("is unbounded." if known else "was not computed.")
+    if g.attained:
+        return f"$\\max({what}) = {number_latex(g.value)}$" + (f" at {at}" if at else "") + "."
+    return f"$\\sup({what}) = {number_latex(g.value)}$" + (f", approached near {at}" if at else "") + " (not attained)."
 
 
 def optimality_sentence(section: ClaimReport) -> str:
@@ -76,9 +86,7 @@ def optimality_sentence(section: ClaimReport) -> str:
     op = section.optimality
     if op is None or not op.fails:
         return ""
-    notation = Notation(name=name_latex, number=number_latex, rel=LATEX_RELS.get, atom=atom_latex,
-                        joiner=",\\ ", everywhere=r"\text{everywhere}", affine=affine_latex)
-    holds, fails, within = sentences(op, notation, joiner="$ or $")
+    holds, fails, within = sentences(op, DISPLAY_LATEX, joiner="$ or $")
 
     def shown(pieces, text):
         if not pieces:
@@ -89,8 +97,8 @@ def optimality_sentence(section: ClaimReport) -> str:
     return f"The claim holds exactly when {holds}{where}, and fails exactly when {fails}."
 
 
-def regime_condition_of(poly) -> str:
-    return condition_latex(poly.atoms)
+def regime_condition_of(poly, names=()) -> str:
+    return condition_latex(poly.atoms, names)
 
 
 SIDE_WORDS = {"inner": "the scheme achieves", "outer": "the converse gives"}
@@ -154,7 +162,7 @@ def region_latex(item) -> str:
     tex = lambda e: expr_to_latex(rename(e, names))  # noqa: E731
     parts = [f"\\paragraph{{Region \\texttt{{{escape(rr.region.name)}}} by regime.}} {escape(heading(rr))}.\\par"]
     for g in rr.regimes:
-        conds = [condition_latex(p) for p in g.pieces]
+        conds = [condition_latex(p, rr.names) for p in g.pieces]
         where = conds[0] if len(conds) == 1 else r"\text{ or }".join(f"({c})" for c in conds)
         rows = []
         for i in g.facets:

@@ -17,8 +17,9 @@ from fractions import Fraction
 
 from verifier.core.errors import InputError
 from verifier.expressions.expr import Affine, affine
+from verifier.expressions.display import display_text, equation_display
 from verifier.expressions.region import Atom, Notation, Region, constraint_text
-from verifier.text.latex_out import expr_to_latex, name_to_latex
+from verifier.text.latex_out import expr_to_latex, name_to_latex, term_to_latex
 
 _SPECIALS = {"\\": r"\textbackslash{}", "&": r"\&", "%": r"\%", "$": r"\$", "#": r"\#", "_": r"\_",
              "{": r"\{", "}": r"\}", "~": r"\textasciitilde{}", "^": r"\textasciicircum{}",
@@ -54,9 +55,10 @@ def atom_latex(atom: Atom) -> str:
     return _sides_latex(atom.form, (">", "<") if atom.strict else (r"\ge", r"\le"))
 
 
-def equation_latex(form: Affine) -> str:
-    """The hyperplane form = 0 written as papers do: \alpha = \tfrac{1}{2}."""
-    return _sides_latex(form, ("=", "="))
+def equation_latex(form: Affine, names=()) -> str:
+    """The hyperplane form = 0 in the display form (verifier.expressions.display), as text prints it:
+    `2\\alpha = \\gamma`."""
+    return equation_display(form, names, DISPLAY_LATEX)
 
 
 def _sides_latex(f: Affine, rels) -> str:
@@ -69,21 +71,27 @@ def _sides_latex(f: Affine, rels) -> str:
 
 
 LATEX_RELS = {"<": "<", "<=": r"\le", "==": "=", ">=": r"\ge", ">": ">"}
+# the display notation in LaTeX: the same normal forms, chains and order as the text report
+DISPLAY_LATEX = Notation(name=name_latex, number=number_latex, rel=LATEX_RELS.get, atom=atom_latex,
+                         joiner=",\\ ", everywhere=r"\text{everywhere}", affine=affine_latex, term=term_to_latex)
 
 
-def condition_latex(atoms) -> str:
-    """Constraints with one-parameter bounds chained: 1/2 <= alpha < 2/3 in LaTeX."""
-    notation = Notation(name=name_latex, number=number_latex, rel=LATEX_RELS.get, atom=atom_latex,
-                        joiner=",\\ ", everywhere=r"\text{everywhere}", affine=affine_latex)
-    return constraint_text(atoms, notation, reorder=True)
+def condition_latex(atoms, names=()) -> str:
+    """Constraints as the text report displays them (verifier.expressions.display: normal forms,
+    chains such as 1/2 <= alpha < 2/3, the parameters in the order `names`), in LaTeX."""
+    return display_text(atoms, names, DISPLAY_LATEX)
 
 
 def region_math(region: Region) -> str:
-    """A region as chained constraints (`0 \\le \\alpha \\le 1,\\ \\gamma > \\alpha`); a union as
-    `(\\dots) \\text{ or } (\\dots)`; the empty region as `\\emptyset`."""
+    """A region as it was written, one parameter's bounds chained (`0 \\le \\alpha \\le 1,\\ \\gamma >
+    \\alpha`): a claim's own region and the scheme's regime conditions quoted in part labels read as
+    their text does (reports display regimes, pieces and sets with condition_latex instead); a
+    union as `(\\dots) \\text{ or } (\\dots)`; the empty region as `\\emptyset`."""
     if not region.pieces:
         return r"\emptyset"
-    conds = [condition_latex(p.atoms) for p in region.pieces]
+    notation = Notation(name=name_latex, number=number_latex, rel=LATEX_RELS.get, atom=atom_latex,
+                        joiner=",\\ ", everywhere=r"\text{everywhere}", affine=affine_latex)
+    conds = [constraint_text(p.atoms, notation, reorder=True) for p in region.pieces]
     return conds[0] if len(conds) == 1 else r" \text{ or } ".join(f"({c})" for c in conds)
 
 

@@ -14,6 +14,7 @@ import re
 
 from verifier.rates.regimes import RegionNotShown, RegionRegimes, corner_text, row_text
 from verifier.regimes.optimality import union_text
+from verifier.report.build import count
 
 CLAIM = ("the corners and statuses hold on each regime except on lower-dimensional boundaries (thresholds, "
          "the edges of the exponent region), where corners may coincide and a facet may degenerate; "
@@ -24,7 +25,7 @@ def heading(rr: RegionRegimes) -> str:
     extra = "" if rr.bounded else "; the region is unbounded (its recession directions are not listed)"
     if not rr.pointed:
         extra += "; it contains a line, so it has no corner points"
-    return (f"regimes of region {rr.region.name}: {len(rr.regimes)} regime(s) from {rr.cells} cell(s); "
+    return (f"regimes of region {rr.region.name}: {count(len(rr.regimes), 'regime')} from {count(rr.cells, 'cell')}; "
             f"{CLAIM}{extra}")
 
 
@@ -43,7 +44,7 @@ def regime_facts(rr: RegionRegimes, g) -> dict:
     if rr.pointed and not g.corners:
         facets = "none: the region is empty here" + (f" (without any one of {facets} it would not be)"
                                                      if g.facets else "")
-    return {"where": union_text(g.pieces), "at": _point(g.point), "facets": facets,
+    return {"where": union_text(g.pieces, names=rr.names), "at": _point(g.point), "facets": facets,
             "redundant": "; ".join(listed("redundant")) or "none", "not shown": "; ".join(listed("not shown")),
             "corners": corners if g.corners or not rr.pointed else "none: the region is empty here"}
 

@@ -9,8 +9,8 @@ from __future__ import annotations
 from verifier.core.verdicts import tally_sentence
 from verifier.expressions.expr import to_text
 from verifier.regimes.optimality import sentences
-from verifier.report.build import (count, failure_share_text, gap_text, num, point_text, solver_text,
-    ClaimEntry, ClaimReport, Report)
+from verifier.report.build import (constraint_text, count, failure_share_text, gap_text, num, point_text,
+    solver_text, ClaimEntry, ClaimReport, Report)
 
 
 def verdict_cell(row) -> str:
@@ -56,7 +56,8 @@ def summary_lines(section: ClaimReport) -> list[str]:
     f = section.failure
     if f is not None and f.pieces:
         lines.append(f"Fails on {count(len(f.pieces), 'piece')}; {failure_share_text(f)}:")
-        lines += [f"  regime {p.regime}: {p.polyhedron.text()} (dimension {p.dim})" for p in f.pieces]
+        lines += [f"  regime {p.regime}: {constraint_text(p.polyhedron.atoms, section.names)} (dimension {p.dim})"
+                  for p in f.pieces]
     lines += optimality_lines(section)
     if section.counterexamples:
         lines.append("Counterexamples (best first):")

@@ -62,6 +62,9 @@ def _term(name: str, mag: Fraction) -> str:
     return f"\\frac{{{top}}}{{{mag.denominator}}}"
 
 
+term_to_latex = _term   # one term of an affine form (`2\\alpha`, `\\frac{\\gamma}{2}`), for other printers
+
+
 def affine_to_latex(a: Affine) -> str:
     return join_affine(a, _term, number_to_latex)
 
